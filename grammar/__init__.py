@@ -1,0 +1,1 @@
+"""The conelang grammar, shipped as package data (``conelang.lark``)."""

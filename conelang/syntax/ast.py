@@ -1,0 +1,263 @@
+"""Typed syntax tree of a ``.cone`` file.  Every node carries its source span.
+
+Spans are half-open character offsets ``(start, end)`` into the file text; turn them into
+lines and columns with :class:`conelang.syntax.text.LineIndex`.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from fractions import Fraction
+from typing import Union
+
+Span = tuple[int, int]
+
+
+@dataclass(frozen=True)
+class Name:
+    text: str
+    span: Span
+
+
+@dataclass(frozen=True)
+class Number:
+    value: Fraction
+    span: Span
+
+
+@dataclass(frozen=True)
+class Vector:
+    entries: tuple[Fraction, ...]
+    span: Span
+
+    def source(self) -> str:
+        return "(" + ", ".join(_frac(x) for x in self.entries) + ")"
+
+
+def _frac(x: Fraction) -> str:
+    return str(x.numerator) if x.denominator == 1 else f"{x.numerator}/{x.denominator}"
+
+
+# ---- lattice expressions ---------------------------------------------------------------
+@dataclass(frozen=True)
+class LatticeName:
+    name: Name
+    span: Span
+
+
+@dataclass(frozen=True)
+class StandardLattice:
+    """``Z^d``; ``symbol`` is the name written before ``^`` (must be ``Z``)."""
+    symbol: Name
+    rank: int
+    span: Span
+
+
+@dataclass(frozen=True)
+class DualLattice:
+    inner: "LatticeExpr"
+    span: Span
+
+
+LatticeExpr = Union[LatticeName, StandardLattice, DualLattice]
+
+
+@dataclass(frozen=True)
+class Glue:
+    """``+ c (v)``: the glue vector c·v (c defaults to 1)."""
+    coefficient: Fraction
+    vector: Vector
+    span: Span
+
+
+@dataclass(frozen=True)
+class Overlattice:
+    base: StandardLattice
+    glue: tuple[Glue, ...]
+    span: Span
+
+
+# ---- cone expressions ------------------------------------------------------------------
+@dataclass(frozen=True)
+class ConeRef:
+    name: Name
+    span: Span
+
+
+@dataclass(frozen=True)
+class DualCone:
+    inner: "ConeExpr"
+    span: Span
+
+
+@dataclass(frozen=True)
+class FaceCone:
+    inner: "ConeExpr"
+    functional: Vector
+    span: Span
+
+
+@dataclass(frozen=True)
+class MeetCone:
+    left: "ConeExpr"
+    right: "ConeExpr"
+    span: Span
+
+
+@dataclass(frozen=True)
+class ImageCone:
+    map: Name
+    inner: "ConeExpr"
+    span: Span
+
+
+@dataclass(frozen=True)
+class PreimageCone:
+    map: Name
+    inner: "ConeExpr"
+    span: Span
+
+
+ConeExpr = Union[ConeRef, DualCone, FaceCone, MeetCone, ImageCone, PreimageCone]
+
+
+# ---- statements ------------------------------------------------------------------------
+@dataclass(frozen=True)
+class Section:
+    """A keyword followed by vectors: ``rays``, ``halfspaces``, ``equations``, ``images``, ``rows``."""
+    keyword: Name
+    vectors: tuple[Vector, ...]
+    span: Span
+
+
+@dataclass(frozen=True)
+class LatticeStmt:
+    keyword: Name
+    name: Name
+    body: Union[LatticeExpr, Overlattice]
+    span: Span
+    kind = "lattice"
+
+
+@dataclass(frozen=True)
+class ConeDef:
+    keyword: Name
+    name: Name
+    lattice: LatticeExpr
+    sections: tuple[Section, ...]
+    span: Span
+    kind = "cone"
+
+
+@dataclass(frozen=True)
+class ConeLet:
+    keyword: Name
+    name: Name
+    expr: ConeExpr
+    span: Span
+    kind = "cone"
+
+
+@dataclass(frozen=True)
+class MapStmt:
+    keyword: Name
+    name: Name
+    source: LatticeExpr
+    target: LatticeExpr
+    section: Section
+    span: Span
+    kind = "map"
+
+
+@dataclass(frozen=True)
+class MorphismDef:
+    keyword: Name
+    name: Name
+    map: Name
+    source: Name
+    target: Name
+    span: Span
+    kind = "morphism"
+
+
+@dataclass(frozen=True)
+class MorphismCompose:
+    """``morphism h = g ∘ f`` (also ``g after f``): apply the rightmost first."""
+    keyword: Name
+    name: Name
+    parts: tuple[Name, ...]
+    span: Span
+    kind = "morphism"
+
+
+@dataclass(frozen=True)
+class CharactersStmt:
+    keyword: Name
+    name: Name
+    lattice: LatticeExpr
+    vectors: tuple[Vector, ...]
+    span: Span
+    kind = "characters"
+
+
+@dataclass(frozen=True)
+class IndexList:
+    indices: tuple[tuple[int, Span], ...]
+    span: Span
+
+
+@dataclass(frozen=True)
+class FanDef:
+    keyword: Name
+    name: Name
+    lattice: LatticeExpr
+    rays: tuple[Vector, ...]
+    cones: tuple[IndexList, ...]
+    span: Span
+    kind = "fan"
+
+
+@dataclass(frozen=True)
+class FanResolve:
+    keyword: Name
+    name: Name
+    cone: Name
+    span: Span
+    kind = "fan"
+
+
+@dataclass(frozen=True)
+class Expect:
+    """``expect X prop``, ``expect X not prop``, ``expect X prop = value``, ``expect X == expr``."""
+    keyword: Name
+    subject: Name
+    negated: bool
+    prop: Name | None
+    value: Union[Number, Vector, "StringValue", None]
+    cone: ConeExpr | None
+    span: Span
+    kind = "expect"
+
+
+@dataclass(frozen=True)
+class StringValue:
+    text: str
+    span: Span
+
+
+Definition = Union[LatticeStmt, ConeDef, ConeLet, MapStmt, MorphismDef, MorphismCompose,
+                   CharactersStmt, FanDef, FanResolve]
+Statement = Union[Definition, Expect]
+
+
+@dataclass(frozen=True)
+class SyntaxError_:
+    """A statement that did not parse: ``message`` says what was expected."""
+    message: str
+    span: Span
+    statement_span: Span
+
+
+@dataclass
+class Module:
+    statements: list = field(default_factory=list)
+    errors: list = field(default_factory=list)

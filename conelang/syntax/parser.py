@@ -1,0 +1,269 @@
+"""Parse ``.cone`` text into the typed tree of :mod:`conelang.syntax.ast`.
+
+The file is split at statement keywords (they are reserved words, so they can only start a
+statement); each statement is parsed on its own by the LALR parser built from
+``grammar/conelang.lark``.  A syntax error therefore costs one statement, never the file.
+
+>>> m = parse("lattice N = Z^2\\ncone c in N { rays (1,0) (1,2) }")
+>>> [type(s).__name__ for s in m.statements], m.errors
+(['LatticeStmt', 'ConeDef'], [])
+"""
+from __future__ import annotations
+
+import functools
+import re
+from fractions import Fraction
+from importlib import resources
+
+from lark import Lark, Token, Tree
+from lark.exceptions import UnexpectedCharacters, UnexpectedEOF, UnexpectedInput, UnexpectedToken
+
+from . import ast as A
+
+STATEMENT_KEYWORDS = ("lattice", "cone", "map", "morphism", "characters", "fan", "expect")
+KEYWORDS = STATEMENT_KEYWORDS + ("dual", "face", "at", "in", "of", "not", "rays", "halfspaces",
+                                 "equations", "images", "rows", "cones", "resolve", "after")
+
+_SCAN = re.compile(r'#[^\n]*|"[^"\n]*"?|[A-Za-z_][A-Za-z0-9_]*')
+_READABLE = {
+    "NAME": "a name", "INT": "a whole number", "STRING": "a quoted string", "SIGN": "a sign",
+    "$END": "end of statement", "ARROW": "'->'", "INVERSE": "'^-1'", "EQEQ": "'=='",
+    "COMPOSE": "'∘'",
+}
+
+
+@functools.cache
+def grammar_text() -> str:
+    return resources.files("conelang.grammar").joinpath("conelang.lark").read_text("utf-8")
+
+
+@functools.cache
+def _parser() -> Lark:
+    return Lark(grammar_text(), parser="lalr", propagate_positions=True, maybe_placeholders=False)
+
+
+def split_statements(text: str) -> list[tuple[int, int]]:
+    """Offsets ``(start, end)`` of the pieces of ``text`` that each start at a statement keyword.
+
+    A leading piece that does not start with a keyword is returned too (it is an error unless
+    it holds only blanks and comments).
+
+    >>> split_statements("cone a = b  # cone\\nexpect a pointed")
+    [(0, 19), (19, 35)]
+    """
+    starts = []
+    for m in _SCAN.finditer(text):
+        if m.group(0) in STATEMENT_KEYWORDS:
+            starts.append(m.start())
+    pieces = []
+    if not starts or text[:starts[0]].strip() and _has_code(text[:starts[0]]):
+        pieces.append((0, starts[0] if starts else len(text)))
+    for i, s in enumerate(starts):
+        pieces.append((s, starts[i + 1] if i + 1 < len(starts) else len(text)))
+    return [p for p in pieces if _has_code(text[p[0]:p[1]])]
+
+
+def _has_code(piece: str) -> bool:
+    return any(line.split("#", 1)[0].strip() for line in piece.splitlines())
+
+
+def parse(text: str) -> A.Module:
+    """Parse a whole file; statements that fail to parse become :class:`ast.SyntaxError_`."""
+    module = A.Module()
+    for start, end in split_statements(text):
+        piece = text[start:end]
+        try:
+            tree = _parser().parse(piece)
+        except UnexpectedInput as exc:
+            module.errors.append(_syntax_error(exc, piece, start))
+            continue
+        except RecursionError:
+            module.errors.append(A.SyntaxError_("statement is nested too deeply", (start, end), (start, end)))
+            continue
+        try:
+            module.statements.append(_Builder(start).statement(tree.children[0]))
+        except _BuildError as exc:
+            module.errors.append(A.SyntaxError_(exc.message, exc.span, (start, end)))
+    return module
+
+
+# ---- errors ----------------------------------------------------------------------------
+def _describe_terminal(name: str) -> str:
+    if name in _READABLE:
+        return _READABLE[name]
+    try:
+        term = _parser().get_terminal(name)
+        if term.pattern.type == "str":
+            return f"'{term.pattern.value}'"
+    except KeyError:
+        pass
+    return name.lower()
+
+
+def _trimmed_end(piece: str, base: int) -> int:
+    code_end = 0
+    offset = 0
+    for line in piece.splitlines(keepends=True):
+        code = line.split("#", 1)[0].rstrip()
+        if code:
+            code_end = offset + len(code)
+        offset += len(line)
+    return base + code_end
+
+
+def _syntax_error(exc: UnexpectedInput, piece: str, base: int) -> A.SyntaxError_:
+    stmt_span = (base, _trimmed_end(piece, base))
+    if isinstance(exc, UnexpectedCharacters):
+        pos = base + exc.pos_in_stream
+        ch = piece[exc.pos_in_stream]
+        return A.SyntaxError_(f"unexpected character {ch!r}", (pos, pos + 1), stmt_span)
+    expected = sorted({_describe_terminal(t) for t in getattr(exc, "expected", ()) or ()})
+    want = ("; expected " + _join_or(expected)) if expected else ""
+    if isinstance(exc, UnexpectedToken) and exc.token.type != "$END":
+        tok = exc.token
+        pos = base + tok.start_pos
+        return A.SyntaxError_(f"unexpected {tok.value!r}{want}", (pos, pos + max(1, len(tok.value))), stmt_span)
+    end = stmt_span[1]
+    keyword = piece.split(None, 1)[0] if piece.split() else "statement"
+    return A.SyntaxError_(f"the {keyword} statement ends too early{want}", (max(base, end - 1), end), stmt_span)
+
+
+def _join_or(items: list[str]) -> str:
+    if len(items) <= 1:
+        return "".join(items)
+    return ", ".join(items[:-1]) + " or " + items[-1]
+
+
+class _BuildError(Exception):
+    def __init__(self, message: str, span):
+        self.message, self.span = message, span
+
+
+# ---- parse tree → typed tree -----------------------------------------------------------
+class _Builder:
+    """Maps one statement's parse tree to typed nodes, shifting spans by ``base``."""
+
+    def __init__(self, base: int):
+        self.base = base
+
+    def span(self, node) -> A.Span:
+        if isinstance(node, Token):
+            return (self.base + node.start_pos, self.base + node.end_pos)
+        return (self.base + node.meta.start_pos, self.base + node.meta.end_pos)
+
+    def tok(self, token: Token) -> A.Name:
+        return A.Name(str(token), self.span(token))
+
+    def name(self, tree: Tree) -> A.Name:
+        return self.tok(tree.children[0])
+
+    # numbers and vectors
+    def number(self, tree: Tree) -> A.Number:
+        parts = [c for c in tree.children]
+        sign = 1
+        if parts and parts[0].type == "SIGN":
+            sign = -1 if parts[0] == "-" else 1
+            parts = parts[1:]
+        num = int(parts[0])
+        den = int(parts[1]) if len(parts) > 1 else 1
+        if den == 0:
+            raise _BuildError("division by zero in a number", self.span(tree))
+        return A.Number(Fraction(sign * num, den), self.span(tree))
+
+    def vector(self, tree: Tree) -> A.Vector:
+        return A.Vector(tuple(self.number(c).value for c in tree.children if isinstance(c, Tree)), self.span(tree))
+
+    def vectors(self, tree: Tree) -> tuple[A.Vector, ...]:
+        return tuple(self.vector(c) for c in tree.children if isinstance(c, Tree))
+
+    # lattices
+    def lattice(self, tree: Tree):
+        kind = tree.data
+        if kind == "lattice_name":
+            return A.LatticeName(self.name(tree.children[0]), self.span(tree))
+        if kind == "standard":
+            symbol = self.name(tree.children[0])
+            if symbol.text != "Z":
+                raise _BuildError(f"a standard lattice is written Z^d, not {symbol.text}^d", symbol.span)
+            return A.StandardLattice(symbol, int(tree.children[1]), self.span(tree))
+        if kind == "dual_lattice":
+            return A.DualLattice(self.lattice(tree.children[1]), self.span(tree))
+        if kind == "overlattice":
+            base = self.lattice(tree.children[0])
+            glue = []
+            for g in tree.children[1:]:
+                coef = Fraction(1)
+                kids = [c for c in g.children if isinstance(c, Tree)]
+                if kids[0].data == "number":
+                    coef = self.number(kids[0]).value
+                    kids = kids[1:]
+                glue.append(A.Glue(coef, self.vector(kids[0]), self.span(g)))
+            return A.Overlattice(base, tuple(glue), self.span(tree))
+        raise _BuildError(f"unexpected lattice form {kind}", self.span(tree))
+
+    # cones
+    def cone_expr(self, tree: Tree):
+        kind, ch, sp = tree.data, tree.children, self.span(tree)
+        if kind == "cone_ref":
+            return A.ConeRef(self.name(ch[0]), sp)
+        if kind == "dual":
+            return A.DualCone(self.cone_expr(ch[1]), sp)
+        if kind == "face":
+            return A.FaceCone(self.cone_expr(ch[1]), self.vector(ch[3]), sp)
+        if kind == "meet":
+            return A.MeetCone(self.cone_expr(ch[0]), self.cone_expr(ch[1]), sp)
+        if kind == "image":
+            return A.ImageCone(self.name(ch[0]), self.cone_expr(ch[1]), sp)
+        if kind == "preimage":
+            return A.PreimageCone(self.name(ch[0]), self.cone_expr(ch[2]), sp)
+        raise _BuildError(f"unexpected cone expression {kind}", sp)
+
+    def section(self, tree: Tree) -> A.Section:
+        return A.Section(self.tok(tree.children[0]), self.vectors(tree.children[1]), self.span(tree))
+
+    def statement(self, tree: Tree):
+        kind, ch, sp = tree.data, tree.children, self.span(tree)
+        kw = self.tok(ch[0])
+        if kind == "lattice_stmt":
+            return A.LatticeStmt(kw, self.name(ch[1]), self.lattice(ch[2]), sp)
+        if kind == "cone_def":
+            return A.ConeDef(kw, self.name(ch[1]), self.lattice(ch[3]),
+                             tuple(self.section(s) for s in ch[4:]), sp)
+        if kind == "cone_let":
+            return A.ConeLet(kw, self.name(ch[1]), self.cone_expr(ch[2]), sp)
+        if kind == "map_stmt":
+            return A.MapStmt(kw, self.name(ch[1]), self.lattice(ch[2]), self.lattice(ch[4]),
+                             self.section(ch[5]), sp)
+        if kind == "morphism_def":
+            return A.MorphismDef(kw, self.name(ch[1]), self.name(ch[2]), self.name(ch[3]), self.name(ch[5]), sp)
+        if kind == "morphism_compose":
+            parts = tuple(self.name(c) for c in ch[2:] if isinstance(c, Tree))
+            return A.MorphismCompose(kw, self.name(ch[1]), parts, sp)
+        if kind == "characters_stmt":
+            return A.CharactersStmt(kw, self.name(ch[1]), self.lattice(ch[3]), self.vectors(ch[4]), sp)
+        if kind == "fan_def":
+            rays = self.vectors(ch[5])
+            cones = []
+            for il in ch[7:]:
+                idx = tuple((int(t), self.span(t)) for t in il.children if isinstance(t, Token) and t.type == "INT")
+                cones.append(A.IndexList(idx, self.span(il)))
+            return A.FanDef(kw, self.name(ch[1]), self.lattice(ch[3]), rays, tuple(cones), sp)
+        if kind == "fan_resolve":
+            return A.FanResolve(kw, self.name(ch[1]), self.name(ch[3]), sp)
+        if kind == "expect_flag":
+            negated = any(isinstance(c, Token) and c.type == "NOT" for c in ch)
+            names = [c for c in ch if isinstance(c, Tree)]
+            return A.Expect(kw, self.name(names[0]), negated, self.name(names[1]), None, None, sp)
+        if kind == "expect_value":
+            value_tree = ch[3]
+            if isinstance(value_tree, Tree) and value_tree.data == "number":
+                value = self.number(value_tree)
+            elif isinstance(value_tree, Tree) and value_tree.data == "vector":
+                value = self.vector(value_tree)
+            else:
+                tok = value_tree.children[0]
+                value = A.StringValue(str(tok)[1:-1], self.span(tok))
+            return A.Expect(kw, self.name(ch[1]), False, self.name(ch[2]), value, None, sp)
+        if kind == "expect_equal":
+            return A.Expect(kw, self.name(ch[1]), False, None, None, self.cone_expr(ch[3]), sp)
+        raise _BuildError(f"unexpected statement {kind}", sp)

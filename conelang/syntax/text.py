@@ -1,0 +1,64 @@
+"""Offsets, lines and columns.
+
+>>> ix = LineIndex("ab\\ncd")
+>>> ix.position(4)
+(1, 1)
+>>> ix.offset(1, 1)
+4
+"""
+from __future__ import annotations
+
+import bisect
+
+
+class LineIndex:
+    """Maps character offsets to 0-based (line, column) and back; also UTF-16 columns (LSP)."""
+
+    def __init__(self, text: str):
+        self.text = text
+        self.starts = [0]
+        for i, ch in enumerate(text):
+            if ch == "\n":
+                self.starts.append(i + 1)
+
+    def position(self, offset: int) -> tuple[int, int]:
+        offset = max(0, min(offset, len(self.text)))
+        line = bisect.bisect_right(self.starts, offset) - 1
+        return line, offset - self.starts[line]
+
+    def offset(self, line: int, column: int) -> int:
+        if line < 0:
+            return 0
+        if line >= len(self.starts):
+            return len(self.text)
+        start = self.starts[line]
+        end = self.starts[line + 1] - 1 if line + 1 < len(self.starts) else len(self.text)
+        return min(start + max(column, 0), end)
+
+    def line_text(self, line: int) -> str:
+        start = self.starts[line]
+        end = self.starts[line + 1] - 1 if line + 1 < len(self.starts) else len(self.text)
+        return self.text[start:end]
+
+    # --- UTF-16 (the LSP default position encoding) ---
+    def position_utf16(self, offset: int) -> tuple[int, int]:
+        line, col = self.position(offset)
+        prefix = self.text[self.starts[line]:self.starts[line] + col]
+        return line, sum(2 if ord(c) > 0xFFFF else 1 for c in prefix)
+
+    def offset_utf16(self, line: int, column: int) -> int:
+        if line < 0:
+            return 0
+        if line >= len(self.starts):
+            return len(self.text)
+        text = self.line_text(line)
+        units = 0
+        for i, c in enumerate(text):
+            if units >= column:
+                return self.starts[line] + i
+            units += 2 if ord(c) > 0xFFFF else 1
+        return self.starts[line] + len(text)
+
+    @property
+    def line_count(self) -> int:
+        return len(self.starts)
