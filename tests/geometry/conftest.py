@@ -1,0 +1,7 @@
+"""Make ``tests/strategies.py`` importable as ``strategies`` (pytest runs in importlib mode)."""
+import sys
+from pathlib import Path
+
+_TESTS = str(Path(__file__).resolve().parents[1])
+if _TESTS not in sys.path:
+    sys.path.insert(0, _TESTS)
