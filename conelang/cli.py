@@ -1,0 +1,189 @@
+"""The ``conelang`` command line: a thin adapter over :class:`conelang.host.AnalysisHost`.
+
+Exit codes: 0 no error and every expectation holds; 1 otherwise; 2 usage error or an
+unreadable file.
+"""
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+from pathlib import Path
+
+from .geometry import budget as gbudget
+from .host import AnalysisHost
+
+FORMATS = ("text", "markdown", "json", "latex", "svg")
+
+
+class UsageError(Exception):
+    pass
+
+
+def _cone_files(paths: list[str]) -> list[Path]:
+    files: list[Path] = []
+    for p in paths:
+        path = Path(p)
+        if path.is_dir():
+            files.extend(sorted(q for q in path.rglob("*.cone") if q.is_file()))
+        elif path.exists():
+            files.append(path)
+        else:
+            raise UsageError(f"{p}: no such file or folder")
+    return files
+
+
+def _read(path: Path) -> str:
+    try:
+        return path.read_text(encoding="utf-8")
+    except UnicodeDecodeError as exc:
+        raise UsageError(f"{path}: not UTF-8 text ({exc.reason} at byte {exc.start})") from None
+    except OSError as exc:
+        raise UsageError(f"{path}: cannot read ({exc.strerror})") from None
+
+
+def _budget(value: str) -> int | None:
+    if value in ("none", "unlimited"):
+        return None
+    try:
+        n = int(value)
+    except ValueError:
+        raise argparse.ArgumentTypeError("a whole number of work steps, or 'none'") from None
+    if n <= 0:
+        raise argparse.ArgumentTypeError("must be positive")
+    return n
+
+
+def check_file(path: Path, budget_limit) -> tuple[list[str], int, int]:
+    """Diagnostics lines of one file, and its counts of errors and warnings."""
+    host = AnalysisHost(budget_limit)
+    uri = str(path)
+    host.apply_change(uri, _read(path))
+    a = host.analysis(uri)
+    lines, errors, warnings = [], 0, 0
+    for d in host.diagnostics(uri):
+        line, col = a.index.position(d.span[0])
+        lines.append(f"{path}:{line + 1}:{col + 1}: {d.severity}: {d.message} [{d.code}]")
+        errors += d.severity == "error"
+        warnings += d.severity == "warning"
+    return lines, errors, warnings
+
+
+def cmd_check(args) -> int:
+    files = _cone_files(args.paths)
+    if not files:
+        raise UsageError("no .cone files found in " + " ".join(args.paths))
+    total_err = total_warn = failed = 0
+    unreadable = False
+    for path in files:
+        try:
+            lines, errors, warnings = check_file(path, args.budget)
+        except UsageError as exc:
+            print(f"conelang: {exc}", file=sys.stderr)
+            unreadable = True
+            continue
+        for line in lines:
+            print(line)
+        total_err += errors
+        total_warn += warnings
+        failed += errors > 0
+    if len(files) > 1 or args.summary:
+        print(f"checked {len(files)} file{'s' * (len(files) != 1)}: {failed} with errors, "
+              f"{total_err} error{'s' * (total_err != 1)}, {total_warn} warning{'s' * (total_warn != 1)}",
+              file=sys.stderr)
+    if unreadable:
+        return 2
+    return 1 if total_err else 0
+
+
+def cmd_show(args) -> int:
+    path = Path(args.path)
+    if not path.is_file():
+        raise UsageError(f"{args.path}: no such file")
+    host = AnalysisHost(args.budget)
+    uri = str(path)
+    host.apply_change(uri, _read(path))
+    a = host.analysis(uri)
+    unknown = [n for n in args.names if n not in a.defs]
+    if unknown:
+        raise UsageError(f"{path}: no definition named {', '.join(unknown)}")
+    doc = host.document(uri, label=str(path), names=args.names or None)
+    fmt = args.format
+    if fmt == "json":
+        from .render import json as r
+    elif fmt == "markdown":
+        from .render import markdown as r
+    elif fmt == "latex":
+        from .render import latex as r
+    elif fmt == "svg":
+        from .render import svg as r
+    else:
+        from .render import text as r
+    if fmt in ("text", "markdown"):
+        for d in doc["diagnostics"]:
+            print(f"{path}:{d['line']}:{d['column']}: {d['severity']}: {d['message']} [{d['code']}]", file=sys.stderr)
+    sys.stdout.write(r.render(doc))
+    if not r.render(doc).endswith("\n"):
+        sys.stdout.write("\n")
+    return 1 if any(d["severity"] == "error" for d in doc["diagnostics"]) else 0
+
+
+def cmd_serve(args) -> int:
+    from .server import main as serve_main
+    serve_main()
+    return 0
+
+
+def build_parser() -> argparse.ArgumentParser:
+    p = argparse.ArgumentParser(prog="conelang", description="Check and compute lattice cones, maps and fans.")
+    p.add_argument("--version", action="version", version="conelang " + __import__("conelang").__version__)
+    sub = p.add_subparsers(dest="command", required=True)
+    budget_help = f"work budget per heavy computation (default {gbudget.DEFAULT_LIMIT}, or 'none')"
+
+    c = sub.add_parser("check", help="check files or folders of .cone files")
+    c.add_argument("paths", nargs="+", metavar="PATH")
+    c.add_argument("--budget", type=_budget, default=gbudget.DEFAULT_LIMIT, help=budget_help)
+    c.add_argument("--summary", action="store_true", help="print a summary line even for one file")
+    c.set_defaults(run=cmd_check)
+
+    s = sub.add_parser("show", help="print the computed facts of a file's objects")
+    s.add_argument("path", metavar="PATH")
+    s.add_argument("names", nargs="*", metavar="NAME")
+    s.add_argument("--format", choices=FORMATS, default="text")
+    s.add_argument("--budget", type=_budget, default=gbudget.DEFAULT_LIMIT, help=budget_help)
+    s.set_defaults(run=cmd_show)
+
+    v = sub.add_parser("serve", help="run the language server on stdio")
+    v.set_defaults(run=cmd_serve)
+    return p
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = build_parser()
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as exc:
+        return int(exc.code or 0) if exc.code in (0, None) else 2
+    try:
+        return args.run(args)
+    except UsageError as exc:
+        print(f"conelang: {exc}", file=sys.stderr)
+        return 2
+    except KeyboardInterrupt:
+        return 130
+    except RecursionError:
+        print("conelang: input nested too deeply", file=sys.stderr)
+        return 2
+    except Exception as exc:  # the last line of defence: a message, never a traceback
+        print(f"conelang: internal error: {type(exc).__name__}: {exc}", file=sys.stderr)
+        return 2
+    except BrokenPipeError:
+        try:
+            sys.stdout = open(os.devnull, "w")
+        except OSError:
+            pass
+        return 1
+
+
+if __name__ == "__main__":
+    sys.exit(main())

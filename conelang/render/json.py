@@ -1,0 +1,8 @@
+"""JSON output (``conelang show --format json``): the document of LANGUAGE.md."""
+from __future__ import annotations
+
+import json
+
+
+def render(doc: dict) -> str:
+    return json.dumps(doc, indent=2, ensure_ascii=False)

@@ -1,0 +1,594 @@
+"""Analysis of one ``.cone`` file: names, kinds, dimensions, evaluation and diagnostics.
+
+:class:`Analysis` is built from text and is then read-only.  Parsing and name resolution
+happen eagerly (cheap); each definition is evaluated lazily on first use and memoised;
+heavy facts (Hilbert bases, equations, invariants) go through :mod:`conelang.semantics.engine`,
+which caches them by the mathematical value, so an edit recomputes only what changed.
+
+>>> a = Analysis("lattice N = Z^2\\ncone c in N { rays (1,0) (1,2) }\\nexpect c dim = 2")
+>>> [d.code for d in a.diagnostics()]
+[]
+>>> a.value("c").cone.rays
+((1, 0), (1, 2))
+"""
+from __future__ import annotations
+
+import difflib
+from dataclasses import dataclass
+from fractions import Fraction
+
+from ..geometry import cone as gcone
+from ..geometry import lattice as glat
+from ..geometry import linalg
+from ..geometry import maps as gmaps
+from ..geometry.budget import BudgetExceeded, Cancelled
+from ..syntax import ast as A
+from ..syntax.parser import parse
+from ..syntax.text import LineIndex
+from . import values as V
+from .diagnostics import Diagnostic, Fix, Related, Sink, sort_key
+from .engine import Engine, NotPointed
+
+KIND_ARTICLE = {"lattice": "a lattice", "cone": "a cone", "map": "a map", "morphism": "a morphism",
+                "characters": "a list of characters", "fan": "a fan"}
+
+
+@dataclass(frozen=True)
+class Ref:
+    """One use of a name: where, what kind is expected there, and (if known) what it means."""
+    name: A.Name
+    expected: str | None         # kind expected at this place (None: any kind)
+    target: str | None           # the defined name it resolves to, or None when unknown
+    owner: str | None            # the definition this use belongs to (None for expectations)
+
+
+class EvalError(Exception):
+    """Evaluation of a definition failed; the diagnostic has already been reported."""
+
+
+def fmt_number(x) -> str:
+    x = Fraction(x)
+    return str(x.numerator) if x.denominator == 1 else f"{x.numerator}/{x.denominator}"
+
+
+def fmt_vec(v) -> str:
+    return "(" + ", ".join(fmt_number(x) for x in v) + ")"
+
+
+class Analysis:
+    def __init__(self, text: str, engine: Engine | None = None):
+        self.text = text
+        self.index = LineIndex(text)
+        self.module = parse(text)
+        self.engine = engine or Engine()
+        self.sink = Sink()
+        for err in self.module.errors:
+            self.sink.error(err.span, "syntax", err.message)
+        self.defs: dict[str, A.Definition] = {}
+        self.expects: list[A.Expect] = []
+        self.refs: list[Ref] = []
+        self.deps: dict[str, set[str]] = {}
+        self.in_cycle: set[str] = set()
+        self._values: dict[str, object] = {}
+        self._evaluating: set[str] = set()
+        self._evaluated_all = False
+        self._collect()
+        self._resolve()
+        self._find_cycles()
+
+    # ------------------------------------------------------------------ names
+    def _collect(self) -> None:
+        for st in self.module.statements:
+            if isinstance(st, A.Expect):
+                self.expects.append(st)
+                continue
+            name = st.name.text
+            if name in self.defs:
+                first = self.defs[name]
+                line = self.index.position(first.name.span[0])[0] + 1
+                self.sink.error(st.name.span, "duplicate-name",
+                                f"'{name}' is already defined on line {line}",
+                                related=(Related(first.name.span, f"first definition of '{name}'"),))
+                continue
+            self.defs[name] = st
+
+    def kind_of(self, name: str) -> str | None:
+        st = self.defs.get(name)
+        return st.kind if st is not None else None
+
+    def _use(self, name: A.Name, expected: str | None, owner: str | None) -> None:
+        target = name.text if name.text in self.defs else None
+        self.refs.append(Ref(name, expected, target, owner))
+        if target is None:
+            close = difflib.get_close_matches(name.text, [n for n in self.defs
+                                                          if expected is None or self.kind_of(n) == expected], n=1)
+            hint = f"; did you mean '{close[0]}'?" if close else ""
+            what = f" {expected}" if expected else ""
+            self.sink.error(name.span, "unknown-name", f"unknown{what} '{name.text}'{hint}")
+            return
+        kind = self.kind_of(target)
+        if expected is not None and kind != expected:
+            self.sink.error(name.span, "wrong-kind",
+                            f"'{name.text}' is {KIND_ARTICLE[kind]}, but {KIND_ARTICLE[expected]} is expected here",
+                            related=(Related(self.defs[target].name.span, f"'{name.text}' is defined here"),))
+            return
+        if owner is not None:
+            self.deps.setdefault(owner, set()).add(target)
+
+    def _lattice_uses(self, expr, owner) -> None:
+        if isinstance(expr, A.LatticeName):
+            self._use(expr.name, "lattice", owner)
+        elif isinstance(expr, A.DualLattice):
+            self._lattice_uses(expr.inner, owner)
+
+    def _cone_uses(self, expr, owner) -> None:
+        if isinstance(expr, A.ConeRef):
+            self._use(expr.name, "cone", owner)
+        elif isinstance(expr, (A.DualCone, A.FaceCone)):
+            self._cone_uses(expr.inner, owner)
+        elif isinstance(expr, A.MeetCone):
+            self._cone_uses(expr.left, owner)
+            self._cone_uses(expr.right, owner)
+        elif isinstance(expr, (A.ImageCone, A.PreimageCone)):
+            self._use(expr.map, "map", owner)
+            self._cone_uses(expr.inner, owner)
+
+    def _resolve(self) -> None:
+        for st in self.module.statements:
+            owner = None if isinstance(st, A.Expect) else st.name.text
+            if owner is not None and self.defs.get(owner) is not st:
+                owner = None  # a duplicate: its uses are still resolved, but it defines nothing
+            if isinstance(st, A.LatticeStmt):
+                if not isinstance(st.body, A.Overlattice):
+                    self._lattice_uses(st.body, owner)
+            elif isinstance(st, (A.ConeDef, A.CharactersStmt, A.FanDef)):
+                self._lattice_uses(st.lattice, owner)
+            elif isinstance(st, A.ConeLet):
+                self._cone_uses(st.expr, owner)
+            elif isinstance(st, A.MapStmt):
+                self._lattice_uses(st.source, owner)
+                self._lattice_uses(st.target, owner)
+            elif isinstance(st, A.MorphismDef):
+                self._use(st.map, "map", owner)
+                self._use(st.source, "cone", owner)
+                self._use(st.target, "cone", owner)
+            elif isinstance(st, A.MorphismCompose):
+                for p in st.parts:
+                    self._use(p, "morphism", owner)
+            elif isinstance(st, A.FanResolve):
+                self._use(st.cone, "cone", owner)
+            elif isinstance(st, A.Expect):
+                self._use(st.subject, None, None)
+                if st.cone is not None:
+                    self._cone_uses(st.cone, None)
+
+    def _find_cycles(self) -> None:
+        """Tarjan's strongly connected components on the dependency graph."""
+        index: dict[str, int] = {}
+        low: dict[str, int] = {}
+        stack: list[str] = []
+        on_stack: set[str] = set()
+        counter = [0]
+        components: list[list[str]] = []
+
+        def visit(v: str) -> None:
+            work = [(v, iter(sorted(self.deps.get(v, ()))))]
+            index[v] = low[v] = counter[0]
+            counter[0] += 1
+            stack.append(v)
+            on_stack.add(v)
+            while work:
+                node, it = work[-1]
+                advanced = False
+                for w in it:
+                    if w not in index:
+                        index[w] = low[w] = counter[0]
+                        counter[0] += 1
+                        stack.append(w)
+                        on_stack.add(w)
+                        work.append((w, iter(sorted(self.deps.get(w, ())))))
+                        advanced = True
+                        break
+                    if w in on_stack:
+                        low[node] = min(low[node], index[w])
+                if advanced:
+                    continue
+                work.pop()
+                if work:
+                    low[work[-1][0]] = min(low[work[-1][0]], low[node])
+                if low[node] == index[node]:
+                    comp = []
+                    while True:
+                        w = stack.pop()
+                        on_stack.discard(w)
+                        comp.append(w)
+                        if w == node:
+                            break
+                    components.append(comp)
+
+        for v in sorted(self.defs):
+            if v not in index:
+                visit(v)
+        for comp in components:
+            if len(comp) == 1 and comp[0] not in self.deps.get(comp[0], ()):
+                continue
+            members = sorted(comp, key=lambda n: self.defs[n].span[0])
+            self.in_cycle.update(members)
+            chain = " → ".join(members + [members[0]])
+            for n in members:
+                self.sink.error(self.defs[n].name.span, "cycle",
+                                f"the definition of '{n}' depends on itself: {chain}")
+
+    # ------------------------------------------------------------------ evaluation
+    def value(self, name: str):
+        """The value of a definition, or None when it (or something it uses) is in error."""
+        if name in self._values:
+            return self._values[name]
+        st = self.defs.get(name)
+        if st is None or name in self.in_cycle or name in self._evaluating:
+            return None
+        self._evaluating.add(name)
+        try:
+            val = self._evaluate(st)
+        except EvalError:
+            val = None
+        except (BudgetExceeded, Cancelled) as exc:
+            if isinstance(exc, Cancelled):
+                self._evaluating.discard(name)
+                raise
+            self.sink.error(st.name.span, "budget", f"{exc}; raise it with --budget")
+            val = None
+        except RecursionError:
+            self.sink.error(st.name.span, "too-deep", f"the definition of '{name}' is nested too deeply")
+            val = None
+        except Exception as exc:  # never lose the rest of the file to one bug
+            self.sink.error(st.name.span, "internal-error",
+                            f"internal error while evaluating '{name}': {type(exc).__name__}: {exc}")
+            val = None
+        finally:
+            self._evaluating.discard(name)
+        self._values[name] = val
+        return val
+
+    def evaluate_all(self) -> None:
+        if self._evaluated_all:
+            return
+        for name in self.defs:
+            self.value(name)
+        self._evaluated_all = True
+
+    def _fail(self, span, code, message, **kw):
+        self.sink.error(span, code, message, **kw)
+        raise EvalError(message)
+
+    def _need(self, name: A.Name):
+        val = self.value(name.text)
+        if val is None:
+            raise EvalError(f"'{name.text}' has errors")
+        return val
+
+    def _evaluate(self, st):
+        if isinstance(st, A.LatticeStmt):
+            return V.LatticeValue(self._lattice_body(st))
+        if isinstance(st, A.ConeDef):
+            return self._cone_def(st)
+        if isinstance(st, A.ConeLet):
+            return self._cone_expr(st.expr)
+        if isinstance(st, A.MapStmt):
+            return self._map(st)
+        if isinstance(st, A.MorphismDef):
+            return self._morphism(st)
+        if isinstance(st, A.MorphismCompose):
+            return self._compose(st)
+        if isinstance(st, A.CharactersStmt):
+            space = self._space(st.lattice)
+            chars = self._vectors(st.vectors, space.dual(), "character", allow_zero=True)
+            return V.CharactersValue(space, tuple(c for _, c in chars))
+        if isinstance(st, A.FanDef):
+            return self._fan_def(st)
+        if isinstance(st, A.FanResolve):
+            return self._fan_resolve(st)
+        raise EvalError("unknown statement")
+
+    # lattices
+    def _lattice_body(self, st: A.LatticeStmt) -> V.Space:
+        body = st.body
+        if isinstance(body, A.Overlattice):
+            d = self._rank(body.base)
+            glue = []
+            for g in body.glue:
+                if len(g.vector.entries) != d:
+                    self._fail(g.vector.span, "vector-length",
+                               f"glue vector {g.vector.source()} has {len(g.vector.entries)} coordinates, "
+                               f"but Z^{d} has rank {d}")
+                glue.append(tuple(g.coefficient * x for x in g.vector.entries))
+            return V.Space(st.name.text, glat.overlattice(d, glue))
+        space = self._space(body)
+        if isinstance(body, A.StandardLattice):
+            return V.Space(st.name.text, space.lattice)
+        return space
+
+    def _rank(self, std: A.StandardLattice) -> int:
+        if std.rank < 1:
+            self._fail(std.span, "bad-lattice", "a lattice must have rank at least 1")
+        if std.rank > 1000:
+            self._fail(std.span, "bad-lattice", f"rank {std.rank} is too large (at most 1000)")
+        return std.rank
+
+    def _space(self, expr) -> V.Space:
+        if isinstance(expr, A.StandardLattice):
+            d = self._rank(expr)
+            return V.Space(f"Z^{d}", glat.standard(d))
+        if isinstance(expr, A.DualLattice):
+            return self._space(expr.inner).dual()
+        if isinstance(expr, A.LatticeName):
+            if self.kind_of(expr.name.text) != "lattice":
+                raise EvalError("not a lattice")
+            return self._need(expr.name).space
+        raise EvalError("bad lattice")
+
+    # vectors
+    def _vectors(self, vecs, space: V.Space, role: str, allow_zero=False):
+        """Check lengths, zero vectors and lattice membership; return (node, coords) pairs."""
+        out, bad = [], False
+        for v in vecs:
+            if len(v.entries) != space.rank:
+                self.sink.error(v.span, "vector-length",
+                                f"this {role} has {len(v.entries)} coordinates, but {space.label} has rank {space.rank}")
+                bad = True
+                continue
+            if not allow_zero and all(x == 0 for x in v.entries):
+                self.sink.error(v.span, "zero-vector", f"a {role} must be a non-zero vector")
+                bad = True
+                continue
+            x = space.to_coords(v.entries)
+            if x is None:
+                self.sink.error(v.span, "not-in-lattice", f"the {role} {v.source()} is not in the lattice {space.label}"
+                                + self._lattice_hint(space, v))
+                bad = True
+                continue
+            out.append((v, x))
+        if bad:
+            raise EvalError("bad vectors")
+        return out
+
+    def _lattice_hint(self, space: V.Space, v: A.Vector) -> str:
+        if space.is_standard and not space.is_dual:
+            return f" (Z^{space.rank} holds only integer vectors)"
+        if space.is_standard and space.is_dual:
+            return f" (dual Z^{space.rank} holds only integer vectors)"
+        return ""
+
+    def _cone_def(self, st: A.ConeDef) -> V.ConeValue:
+        space = self._space(st.lattice)
+        seen: dict[str, A.Section] = {}
+        for sec in st.sections:
+            kw = sec.keyword.text
+            if kw in seen:
+                self._fail(sec.keyword.span, "duplicate-section", f"'{kw}' is given twice in this cone")
+            seen[kw] = sec
+        if "rays" in seen and ("halfspaces" in seen or "equations" in seen):
+            other = seen.get("halfspaces") or seen.get("equations")
+            self._fail(other.keyword.span, "mixed-description",
+                       "a cone is given either by rays or by halfspaces and equations, not both")
+        if not seen:
+            self._fail(st.name.span, "missing-description",
+                       f"cone '{st.name.text}' needs 'rays …' or 'halfspaces …' (write 'rays' alone for the zero cone)")
+        d = space.rank
+        if "rays" in seen:
+            sec = seen["rays"]
+            rays = self._vectors(sec.vectors, space, "ray")
+            coords = [x for _, x in rays]
+            for node, x in rays:
+                g = linalg.gcd_vec(x)
+                if g > 1:
+                    prim = tuple(c // g for c in x)
+                    pv = fmt_vec(space.from_coords(prim))
+                    self.sink.warning(node.span, "not-primitive",
+                                      f"the ray {node.source()} is not primitive; the primitive vector on this ray is {pv}",
+                                      fixes=(Fix(f"replace by {pv}", node.span, pv),))
+            for i in gcone.redundant_generators(coords, d):
+                node = rays[i][0]
+                self.sink.warning(node.span, "redundant-ray",
+                                  f"the ray {node.source()} is not extremal: it is redundant in cone '{st.name.text}'",
+                                  unnecessary=True,
+                                  fixes=(Fix(f"remove the redundant ray {node.source()}", node.span, ""),))
+            return V.ConeValue(space, gcone.cone_from_rays(coords, d))
+        dual_space = space.dual()
+        ineqs = self._vectors(seen["halfspaces"].vectors, dual_space, "inequality") if "halfspaces" in seen else []
+        eqs = self._vectors(seen["equations"].vectors, dual_space, "equation") if "equations" in seen else []
+        ic = [x for _, x in ineqs]
+        ec = [x for _, x in eqs]
+        for i in gcone.redundant_inequalities(ic, ec, d):
+            node = ineqs[i][0]
+            self.sink.warning(node.span, "redundant-inequality",
+                              f"the inequality {node.source()} ≥ 0 is redundant: it does not cut out a facet",
+                              unnecessary=True,
+                              fixes=(Fix(f"remove the redundant inequality {node.source()}", node.span, ""),))
+        return V.ConeValue(space, gcone.cone_from_inequalities(ic, ec, d))
+
+    def _cone_expr(self, expr) -> V.ConeValue:
+        if isinstance(expr, A.ConeRef):
+            return self._need(expr.name)
+        if isinstance(expr, A.DualCone):
+            inner = self._cone_expr(expr.inner)
+            return V.ConeValue(inner.space.dual(), self.engine.dual(inner.cone))
+        if isinstance(expr, A.FaceCone):
+            inner = self._cone_expr(expr.inner)
+            (node, u), = self._vectors([expr.functional], inner.space.dual(), "functional", allow_zero=True)
+            for r in inner.cone.rays + inner.cone.lineality + tuple(tuple(-c for c in l) for l in inner.cone.lineality):
+                val = linalg.dot(u, r)
+                if val < 0:
+                    rv = fmt_vec(inner.space.from_coords(r))
+                    self._fail(node.span, "face-not-dual",
+                               f"{node.source()} is not in the dual cone, so it cuts out no face: "
+                               f"<{node.source()}, {rv}> = {val} < 0")
+            return V.ConeValue(inner.space, gcone.face(inner.cone, u))
+        if isinstance(expr, A.MeetCone):
+            left, right = self._cone_expr(expr.left), self._cone_expr(expr.right)
+            if left.space != right.space:
+                self._fail(expr.span, "lattice-mismatch",
+                           f"cannot intersect a cone in {left.space.label} with a cone in {right.space.label}")
+            return V.ConeValue(left.space, gcone.intersection(left.cone, right.cone))
+        if isinstance(expr, (A.ImageCone, A.PreimageCone)):
+            m = self._need(expr.map)
+            inner = self._cone_expr(expr.inner)
+            if isinstance(expr, A.ImageCone):
+                if inner.space != m.source:
+                    self._fail(expr.inner.span, "lattice-mismatch",
+                               f"'{expr.map.text}' maps {m.source.label} to {m.target.label}, "
+                               f"but this cone lives in {inner.space.label}")
+                return V.ConeValue(m.target, gmaps.image(m.matrix, inner.cone))
+            if inner.space != m.target:
+                self._fail(expr.inner.span, "lattice-mismatch",
+                           f"'{expr.map.text}' maps {m.source.label} to {m.target.label}, "
+                           f"but this cone lives in {inner.space.label}")
+            return V.ConeValue(m.source, gmaps.preimage(m.matrix, inner.cone))
+        raise EvalError("bad cone expression")
+
+    def _map(self, st: A.MapStmt) -> V.MapValue:
+        source, target = self._space(st.source), self._space(st.target)
+        sec = st.section
+        m, n = target.rank, source.rank
+        kw = sec.keyword.text
+        if kw == "images":
+            if len(sec.vectors) != n:
+                self._fail(sec.span, "map-shape",
+                           f"a map from {source.label} (rank {n}) needs {n} images, one per basis vector; "
+                           f"{len(sec.vectors)} given")
+            for v in sec.vectors:
+                if len(v.entries) != m:
+                    self._fail(v.span, "map-shape",
+                               f"each image lies in {target.label} and needs {m} coordinates; this one has {len(v.entries)}")
+            rows = tuple(tuple(sec.vectors[j].entries[i] for j in range(n)) for i in range(m))
+        else:
+            if len(sec.vectors) != m:
+                self._fail(sec.span, "map-shape",
+                           f"a map to {target.label} (rank {m}) needs {m} rows; {len(sec.vectors)} given")
+            for v in sec.vectors:
+                if len(v.entries) != n:
+                    self._fail(v.span, "map-shape",
+                               f"each row has one entry per coordinate of {source.label}, so {n}; this one has {len(v.entries)}")
+            rows = tuple(v.entries for v in sec.vectors)
+        cols = []
+        for j, b in enumerate(source.coordinate_basis):
+            img = tuple(sum(Fraction(r[k]) * b[k] for k in range(n)) for r in rows)
+            y = target.to_coords(img)
+            if y is None:
+                self._fail(sec.span, "not-in-lattice",
+                           f"the map sends the lattice vector {fmt_vec(b)} of {source.label} to {fmt_vec(img)}, "
+                           f"which is not in {target.label}")
+            cols.append(y)
+        matrix = tuple(tuple(cols[j][i] for j in range(n)) for i in range(m))
+        return V.MapValue(source, target, matrix, tuple(tuple(Fraction(x) for x in r) for r in rows))
+
+    def _morphism(self, st: A.MorphismDef) -> V.MorphismValue:
+        m = self._need(st.map)
+        src, tgt = self._need(st.source), self._need(st.target)
+        for cone_name, val, want, role in ((st.source, src, m.source, "source"), (st.target, tgt, m.target, "target")):
+            if val.space != want:
+                self._fail(cone_name.span, "lattice-mismatch",
+                           f"'{st.map.text}' has {role} lattice {want.label}, but '{cone_name.text}' lives in {val.space.label}")
+        for cone_name, val in ((st.source, src), (st.target, tgt)):
+            line = gcone.a_line_in(val.cone)
+            if line is not None:
+                self._fail(cone_name.span, "not-pointed",
+                           f"'{cone_name.text}' is not pointed (it contains the line through "
+                           f"{fmt_vec(val.space.from_coords(line))}), so it does not define an affine toric variety")
+        violation = gmaps.first_violation(m.matrix, src.cone, tgt.cone)
+        if violation is not None:
+            ray, image, normal, value, is_eq = violation
+            rv = fmt_vec(src.space.from_coords(ray))
+            iv = fmt_vec(tgt.space.from_coords(image))
+            nv = fmt_vec(tgt.space.dual().from_coords(normal))
+            rel = "≠ 0 for the equation" if is_eq else "< 0 for the facet"
+            self._fail(st.span, "incompatible-morphism",
+                       f"'{st.map.text}' does not send '{st.source.text}' into '{st.target.text}': it sends the ray {rv} "
+                       f"to {iv}, which has <{nv}, ·> = {value} {rel} {nv} of '{st.target.text}'",
+                       related=(Related(self.defs[st.target.text].span, f"'{st.target.text}' is defined here"),
+                                Related(self.defs[st.source.text].span, f"'{st.source.text}' is defined here")))
+        return V.MorphismValue(st.map.text, m, st.source.text, st.target.text, src, tgt)
+
+    def _compose(self, st: A.MorphismCompose) -> V.MorphismValue:
+        parts = [self._need(p) for p in st.parts]   # g ∘ f: the last one is applied first
+        result = parts[-1]
+        for name, outer in zip(reversed(st.parts[:-1]), reversed(parts[:-1])):
+            if outer.source != result.target:
+                self._fail(name.span, "lattice-mismatch",
+                           f"cannot compose: '{name.text}' starts at cone '{outer.source_name}', "
+                           f"but the morphism before it ends at '{result.target_name}'")
+            matrix = linalg.mat_mul(outer.map.matrix, result.map.matrix, result.map.source.rank)
+            rows = tuple(tuple(Fraction(x) for x in r) for r in linalg.mat_mul(
+                outer.map.ambient_rows, result.map.ambient_rows, result.map.source.rank))
+            composite = V.MapValue(result.map.source, outer.map.target, tuple(tuple(r) for r in matrix), rows)
+            result = V.MorphismValue(f"{name.text} ∘ {result.map_name}", composite, result.source_name,
+                                     outer.target_name, result.source, outer.target)
+        return result
+
+    def _fan_def(self, st: A.FanDef) -> V.FanValue:
+        space = self._space(st.lattice)
+        rays = self._vectors(st.rays, space, "ray")
+        coords = []
+        for node, x in rays:
+            g = linalg.gcd_vec(x)
+            if g > 1:
+                pv = fmt_vec(space.from_coords(tuple(c // g for c in x)))
+                self.sink.warning(node.span, "not-primitive",
+                                  f"the ray {node.source()} is not primitive; the primitive vector on this ray is {pv}",
+                                  fixes=(Fix(f"replace by {pv}", node.span, pv),))
+            coords.append(tuple(c // g for c in x))
+        cones = []
+        for il in st.cones:
+            idx = []
+            for i, sp in il.indices:
+                if not 1 <= i <= len(coords):
+                    self._fail(sp, "bad-index", f"ray index {i} is out of range: the fan has {len(coords)} rays (numbered from 1)")
+                idx.append(i - 1)
+            cones.append(tuple(idx))
+        return V.FanValue(space, tuple(coords), tuple(cones))
+
+    def _fan_resolve(self, st: A.FanResolve) -> V.FanValue:
+        c = self._need(st.cone)
+        line = gcone.a_line_in(c.cone)
+        if line is not None:
+            self._fail(st.cone.span, "not-pointed",
+                       f"'{st.cone.text}' is not pointed (it contains the line through "
+                       f"{fmt_vec(c.space.from_coords(line))}); only pointed cones can be resolved")
+        fan = self.engine.resolve(c.cone)
+        return V.FanValue(c.space, fan[0], fan[1], st.cone.text)
+
+    # ------------------------------------------------------------------ expectations
+    def check_expectations(self) -> None:
+        from .properties import check_expect
+        for ex in self.expects:
+            try:
+                check_expect(self, ex)
+            except Cancelled:
+                raise
+            except Exception as exc:  # one broken check must not hide the others
+                self.sink.error(ex.span, "internal-error",
+                                f"internal error while checking this expectation: {type(exc).__name__}: {exc}")
+
+    def diagnostics(self, expectations: bool = True) -> list[Diagnostic]:
+        """All diagnostics of the file, sorted by position."""
+        self.evaluate_all()
+        if expectations:
+            self.check_expectations()
+        return sorted(self.sink.items, key=sort_key)
+
+    # ------------------------------------------------------------------ queries by offset
+    def node_at(self, offset: int):
+        """The name use or definition name at ``offset`` (for hover, definition, rename)."""
+        for st in self.module.statements:
+            if not isinstance(st, A.Expect) and st.name.span[0] <= offset <= st.name.span[1]:
+                return ("def", st.name.text, st.name.span)
+        for ref in self.refs:
+            if ref.name.span[0] <= offset <= ref.name.span[1]:
+                return ("ref", ref.target, ref.name.span)
+        return None
+
+    def statement_at(self, offset: int):
+        for st in self.module.statements:
+            if st.span[0] <= offset <= st.span[1]:
+                return st
+        return None

@@ -1,0 +1,205 @@
+"""The computed facts of each object, as plain JSON-ready data (the ``objects`` of LANGUAGE.md).
+
+Every renderer (text, Markdown, LaTeX, JSON, hover) formats these dictionaries, so a fact
+is computed in one place.  Vectors are in user coordinates: lists of ints, or of strings
+``"p/q"`` where a coordinate is not an integer.  Heavy parts that fail (budget, not pointed)
+are left out and explained in the object's ``"errors"`` list.
+"""
+from __future__ import annotations
+
+from fractions import Fraction
+
+from ..geometry import linalg
+from ..geometry import maps as gmaps
+from ..geometry.budget import BudgetExceeded, Cancelled
+from . import values as V
+from .engine import NotAvailable, NotPointed
+from .properties import group_string
+
+
+def jnum(x):
+    x = Fraction(x)
+    return x.numerator if x.denominator == 1 else f"{x.numerator}/{x.denominator}"
+
+
+def jvec(v) -> list:
+    return [jnum(x) for x in v]
+
+
+def _user(space: V.Space, coords) -> list:
+    return jvec(space.from_coords(coords))
+
+
+def object_facts(analysis, name: str, heavy: bool = True) -> dict | None:
+    """The facts of the definition ``name`` (None when it has errors)."""
+    value = analysis.value(name)
+    if value is None:
+        return None
+    if isinstance(value, V.LatticeValue):
+        return lattice_facts(value)
+    if isinstance(value, V.ConeValue):
+        return cone_facts(analysis, value, heavy)
+    if isinstance(value, V.MapValue):
+        return map_facts(value, analysis.defs[name])
+    if isinstance(value, V.MorphismValue):
+        return morphism_facts(analysis, value, heavy)
+    if isinstance(value, V.CharactersValue):
+        return characters_facts(analysis, value, heavy)
+    if isinstance(value, V.FanValue):
+        return fan_facts(analysis, value, heavy)
+    return None
+
+
+def lattice_facts(value: V.LatticeValue) -> dict:
+    s = value.space
+    out = {"kind": "lattice", "rank": s.rank}
+    if not s.is_standard or s.is_dual:
+        out["basis"] = [jvec(b) for b in s.coordinate_basis]
+    if s.is_dual:
+        out["dual_of"] = s.key
+    return out
+
+
+def _guard(errors: list, what: str, fn):
+    """Run a heavy computation; on failure record why and return None."""
+    try:
+        return fn()
+    except Cancelled:
+        raise
+    except NotPointed:
+        errors.append(f"{what}: the cone is not pointed")
+    except BudgetExceeded as exc:
+        errors.append(f"{what}: {exc}")
+    except NotAvailable as exc:
+        errors.append(f"{what}: {exc}")
+    except Exception as exc:  # never lose the other facts to one bug
+        errors.append(f"{what}: internal error ({type(exc).__name__}: {exc})")
+    return None
+
+
+def cone_facts(analysis, value: V.ConeValue, heavy: bool = True) -> dict:
+    s, c = value.space, value.cone
+    dual_space = s.dual()
+    out = {
+        "kind": "cone", "lattice": s.label, "ambient_dim": c.ambient_dim, "dim": c.dim,
+        "pointed": c.pointed, "full": c.full, "simplicial": c.simplicial,
+        "rays": [_user(s, r) for r in c.rays],
+        "lineality": [_user(s, l) for l in c.lineality],
+        "facets": [_user(dual_space, u) for u in c.facets],
+        "linear_equations": [_user(dual_space, e) for e in c.equations],
+    }
+    if not c.pointed:
+        from ..geometry import cone as gcone
+        out["line"] = _user(s, gcone.a_line_in(c))
+    if not heavy:
+        return out
+    errors: list[str] = []
+    hb = _guard(errors, "Hilbert basis", lambda: analysis.engine.hilbert_basis(c))
+    if hb is not None:
+        out["hilbert_basis"] = [_user(s, h) for h in hb]
+    if c.pointed:
+        out["variety"] = variety_facts(analysis, value, errors)
+    if errors:
+        out["errors"] = errors
+    return out
+
+
+def variety_facts(analysis, value: V.ConeValue, errors: list) -> dict | None:
+    s, c = value.space, value.cone
+    eng = analysis.engine
+    var = _guard(errors, "affine toric variety", lambda: eng.variety(c))
+    if var is None:
+        return None
+    inv = lambda name: _guard(errors, name.replace("_", " "), lambda: eng.invariant(name, c))
+    gi = inv("gorenstein_index")
+    cg = inv("class_group")
+    out = {
+        "generators": [_user(s.dual(), g) for g in var.generators],
+        "equations": list(var.equations),
+        "binomials": [[list(p), list(m)] for p, m in var.binomials],
+        "dimension": var.dimension,
+        "embedding_dimension": var.embedding_dimension,
+        "smooth": inv("is_smooth"),
+        "simplicial": c.simplicial,
+        "gorenstein": gi == 1,
+        "qgorenstein": gi is not None,
+        "gorenstein_index": gi,
+        "class_group": group_string(cg) if cg is not None else None,
+        "multiplicity": inv("multiplicity"),
+        "torus_action": list(var.torus_action),
+    }
+    if out["multiplicity"] is None:
+        del out["multiplicity"]
+    return out
+
+
+def map_facts(value: V.MapValue, st) -> dict:
+    return {"kind": "map", "source": value.source.label, "target": value.target.label,
+            "rows": [jvec(r) for r in value.ambient_rows],
+            "lattice_matrix": [list(r) for r in value.matrix],
+            "injective": linalg.rank(value.matrix, value.source.rank) == value.source.rank,
+            "surjective": _surjective(value)}
+
+
+def _surjective(value: V.MapValue) -> bool:
+    m = value.target.rank
+    if linalg.rank(value.matrix, value.source.rank) < m:
+        return False
+    cols = linalg.transpose(value.matrix, value.source.rank)
+    return linalg.lattice_index(cols, m) == 1
+
+
+def morphism_facts(analysis, value: V.MorphismValue, heavy: bool = True) -> dict:
+    out = {"kind": "morphism", "map": value.map_name, "source": value.source_name,
+           "target": value.target_name, "compatible": True}
+    if not heavy:
+        return out
+    errors: list[str] = []
+    mor = _guard(errors, "induced morphism", lambda: analysis.engine.morphism(value))
+    if mor is not None:
+        out.update(mor)
+    if errors:
+        out["errors"] = errors
+    return out
+
+
+def characters_facts(analysis, value: V.CharactersValue, heavy: bool = True) -> dict:
+    out = {"kind": "characters", "lattice": value.space.label,
+           "characters": [_user(value.space.dual(), u) for u in value.characters]}
+    if not heavy:
+        return out
+    errors: list[str] = []
+    ch = _guard(errors, "characters", lambda: analysis.engine.characters(value.characters))
+    if ch is not None:
+        dual_space = value.space.dual()
+        out.update({
+            "normal": ch.normal,
+            "group_rank": ch.group_rank,
+            "cone": {"rays": [_user(dual_space, r) for r in ch.cone.rays],
+                     "lineality": [_user(dual_space, r) for r in ch.cone.lineality]},
+            "limits_cone": {"rays": [_user(value.space, r) for r in ch.limit_cone.rays],
+                            "lineality": [_user(value.space, r) for r in ch.limit_cone.lineality]},
+            "holes": [_user(dual_space, h) for h in ch.holes],
+            "equations": list(ch.equations),
+            "binomials": [[list(p), list(m)] for p, m in ch.binomials],
+        })
+    if errors:
+        out["errors"] = errors
+    return out
+
+
+def fan_facts(analysis, value: V.FanValue, heavy: bool = True) -> dict:
+    out = {"kind": "fan", "lattice": value.space.label,
+           "rays": [_user(value.space, r) for r in value.rays],
+           "cones": [[i + 1 for i in c] for c in value.cones]}
+    if value.source_cone:
+        out["resolves"] = value.source_cone
+    if not heavy:
+        return out
+    errors: list[str] = []
+    fx = _guard(errors, "fan", lambda: analysis.engine.fan_facts(value))
+    if fx is not None:
+        out.update(fx)
+    if errors:
+        out["errors"] = errors
+    return out

@@ -1,0 +1,286 @@
+"""The properties that ``expect`` knows, one registry for every kind of object.
+
+To add a property: write a function ``(analysis, value) -> result`` and register it with
+:func:`prop`; ``expect``, the completion list in the editor and the docs read this registry.
+Results are ``bool``, ``int``, ``None`` (for "not defined", e.g. the Gorenstein index of a
+cone that is not Q-Gorenstein) or an abelian group ``(free_rank, invariant_factors)``.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any, Callable
+
+from ..geometry import cone as gcone
+from ..geometry import linalg
+from ..geometry.budget import BudgetExceeded, Cancelled
+from ..syntax import ast as A
+from .diagnostics import Related
+from .engine import NotAvailable, NotPointed
+
+BOOL, INT, GROUP, OPT_INT = "yes/no", "integer", "abelian group", "integer or none"
+
+
+@dataclass(frozen=True)
+class Property:
+    name: str
+    kind: str              # the kind of object it applies to
+    type: str
+    doc: str
+    compute: Callable[[Any, Any], Any]
+
+
+REGISTRY: dict[tuple[str, str], Property] = {}
+
+
+def prop(kind: str, name: str, type_: str, doc: str):
+    def register(fn):
+        REGISTRY[(kind, name)] = Property(name, kind, type_, doc, fn)
+        return fn
+    return register
+
+
+def properties_for(kind: str) -> list[Property]:
+    return [p for (k, _), p in REGISTRY.items() if k == kind]
+
+
+# ---- cones -------------------------------------------------------------------------------
+@prop("cone", "pointed", BOOL, "contains no line (strongly convex)")
+def _pointed(a, v):
+    return v.cone.pointed
+
+
+@prop("cone", "full", BOOL, "full-dimensional in its lattice")
+def _full(a, v):
+    return v.cone.full
+
+
+@prop("cone", "simplicial", BOOL, "the ray generators are linearly independent")
+def _simplicial(a, v):
+    return v.cone.simplicial
+
+
+@prop("cone", "dim", INT, "dimension of the linear span")
+def _dim(a, v):
+    return v.cone.dim
+
+
+@prop("cone", "rays", INT, "number of extremal rays")
+def _rays(a, v):
+    return len(v.cone.rays)
+
+
+@prop("cone", "facets", INT, "number of facets")
+def _facets(a, v):
+    return len(v.cone.facets)
+
+
+@prop("cone", "smooth", BOOL, "U_σ is smooth: the rays are part of a lattice basis")
+def _smooth(a, v):
+    return a.engine.invariant("is_smooth", v.cone)
+
+
+@prop("cone", "gorenstein", BOOL, "U_σ is Gorenstein: some m in M has <m, v_i> = 1 on every ray")
+def _gorenstein(a, v):
+    return a.engine.invariant("gorenstein_index", v.cone) == 1
+
+
+@prop("cone", "qgorenstein", BOOL, "U_σ is Q-Gorenstein: some m in M_Q has <m, v_i> = 1 on every ray")
+def _qgorenstein(a, v):
+    return a.engine.invariant("gorenstein_index", v.cone) is not None
+
+
+@prop("cone", "index", OPT_INT, "Gorenstein index: least k with k·K Cartier (none if not Q-Gorenstein)")
+def _index(a, v):
+    return a.engine.invariant("gorenstein_index", v.cone)
+
+
+@prop("cone", "generators", INT, "size of the Hilbert basis of σ^∨ ∩ M (embedding dimension of U_σ)")
+def _generators(a, v):
+    return len(a.engine.variety(v.cone).generators)
+
+
+@prop("cone", "equations", INT, "number of minimal binomial equations of U_σ")
+def _equations(a, v):
+    return len(a.engine.variety(v.cone).binomials)
+
+
+@prop("cone", "multiplicity", OPT_INT, "index of the lattice spanned by the rays (simplicial cones)")
+def _multiplicity(a, v):
+    return a.engine.invariant("multiplicity", v.cone)
+
+
+@prop("cone", "class_group", GROUP, "class group of U_σ: Z^rays / M")
+def _class_group(a, v):
+    return a.engine.invariant("class_group", v.cone)
+
+
+# ---- characters ----------------------------------------------------------------------------
+@prop("characters", "normal", BOOL, "the monoid they generate is saturated in the group they generate")
+def _normal(a, v):
+    return a.engine.characters(v.characters).normal
+
+
+# ---- morphisms ----------------------------------------------------------------------------
+@prop("morphism", "compatible", BOOL, "the map sends the source cone into the target cone")
+def _compatible(a, v):
+    return True   # an incompatible morphism is an error and has no value
+
+
+# ---- checking -------------------------------------------------------------------------------
+def parse_group(text: str):
+    """Parse ``"Z^2 + Z/3"`` into ``(free_rank, invariant factors)``; None when malformed.
+
+    >>> parse_group("Z/2 + Z/3"), parse_group("0"), parse_group("Z^2+Z/4")
+    ((0, (6,)), (0, ()), (2, (4,)))
+    """
+    text = text.replace(" ", "")
+    if text in ("0", ""):
+        return (0, ())
+    free, torsion = 0, []
+    for term in text.split("+"):
+        if term == "Z":
+            free += 1
+        elif term.startswith("Z^") and term[2:].isdigit():
+            free += int(term[2:])
+        elif term.startswith("Z/") and term[2:].isdigit() and int(term[2:]) > 0:
+            torsion.append(int(term[2:]))
+        elif term == "0":
+            continue
+        else:
+            return None
+    diag = [[t if i == j else 0 for j in range(len(torsion))] for i, t in enumerate(torsion)]
+    inv = linalg.snf_invariants(diag, len(torsion)) if torsion else ()
+    return (free, tuple(d for d in inv if d != 1))
+
+
+def group_string(g) -> str:
+    free, inv = g
+    return linalg.abelian_group_string(inv, free)
+
+
+def show_result(value) -> str:
+    if value is None:
+        return "none"
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, tuple) and len(value) == 2 and isinstance(value[1], tuple):
+        return f'"{group_string(value)}"'
+    return str(value)
+
+
+def compute(analysis, kind: str, name: str, value):
+    """Evaluate one registered property (may raise NotPointed, BudgetExceeded, NotAvailable)."""
+    return REGISTRY[(kind, name)].compute(analysis, value)
+
+
+def check_expect(analysis, ex: A.Expect) -> None:
+    sink = analysis.sink
+    subject = ex.subject.text
+    kind = analysis.kind_of(subject)
+    if kind is None:
+        return                                   # unknown name: already reported
+    value = analysis.value(subject)
+    if value is None:
+        return                                   # the definition has errors: already reported
+    if ex.cone is not None:
+        if kind != "cone":
+            sink.error(ex.subject.span, "wrong-kind", f"'==' compares cones, but '{subject}' is a {kind}")
+            return
+        from .analysis import EvalError
+        try:
+            other = analysis._cone_expr(ex.cone)
+        except EvalError:
+            return
+        if other.space != value.space:
+            sink.error(ex.span, "expect-failed",
+                       f"'{subject}' lives in {value.space.label}, the right-hand side in {other.space.label}")
+        elif other.cone != value.cone:
+            sink.error(ex.span, "expect-failed", f"the cones differ: {_difference(analysis, value, other)}")
+        return
+    pname = ex.prop.text
+    p = REGISTRY.get((kind, pname))
+    if p is None:
+        known = ", ".join(q.name for q in properties_for(kind)) or "none yet"
+        sink.error(ex.prop.span, "unknown-property", f"'{pname}' is not a property of a {kind}; known: {known}")
+        return
+    if ex.value is None and p.type != BOOL:
+        sink.error(ex.prop.span, "expect-needs-value",
+                   f"'{pname}' is {'an' if p.type[0] in 'aeiou' else 'a'} {p.type}: write 'expect {subject} {pname} = …'")
+        return
+    if ex.value is not None and p.type == BOOL:
+        sink.error(ex.value.span, "expect-bad-value",
+                   f"'{pname}' is yes/no: write 'expect {subject} {pname}' or 'expect {subject} not {pname}'")
+        return
+    wanted = _expected_value(analysis, ex, p)
+    if wanted is _BAD:
+        return
+    try:
+        got = p.compute(analysis, value)
+    except NotPointed as exc:
+        line = _fmt(analysis, value, exc.line)
+        sink.error(ex.span, "not-pointed",
+                   f"'{subject}' is not pointed (it contains the line through {line}), so it does not define "
+                   f"an affine toric variety and '{pname}' is not defined",
+                   related=(Related(analysis.defs[subject].span, f"'{subject}' is defined here"),))
+        return
+    except BudgetExceeded as exc:
+        sink.error(ex.span, "budget", f"cannot check '{pname}' of '{subject}': {exc}; raise it with --budget")
+        return
+    except NotAvailable as exc:
+        sink.error(ex.span, "not-computed-yet", f"cannot check '{pname}' of '{subject}': {exc}")
+        return
+    except Cancelled:
+        raise
+    if p.type == BOOL:
+        ok = bool(got) != ex.negated
+        if not ok:
+            sink.error(ex.span, "expect-failed",
+                       f"expected '{subject}' {'not ' if ex.negated else ''}to be {pname}, but it is "
+                       f"{'' if got else 'not '}{pname}")
+        return
+    if got != wanted:
+        sink.error(ex.span, "expect-failed",
+                   f"expected {pname} = {show_result(wanted)} for '{subject}', computed {show_result(got)}")
+
+
+_BAD = object()
+
+
+def _expected_value(analysis, ex: A.Expect, p: Property):
+    sink = analysis.sink
+    v = ex.value
+    if p.type in (INT, OPT_INT):
+        if isinstance(v, A.StringValue) and p.type == OPT_INT and v.text == "none":
+            return None
+        if not isinstance(v, A.Number) or v.value.denominator != 1:
+            sink.error(v.span, "expect-bad-value", f"'{p.name}' is an integer")
+            return _BAD
+        return int(v.value)
+    if p.type == GROUP:
+        if isinstance(v, A.Number) and v.value == 0:
+            return (0, ())
+        if not isinstance(v, A.StringValue) or parse_group(v.text) is None:
+            sink.error(v.span, "expect-bad-value",
+                       f"'{p.name}' is an abelian group written like \"Z/4\", \"Z/2 + Z/4\", \"Z^2 + Z/3\" or \"0\"")
+            return _BAD
+        return parse_group(v.text)
+    return _BAD
+
+
+def _fmt(analysis, value, coords) -> str:
+    from .analysis import fmt_vec
+    return fmt_vec(value.space.from_coords(coords))
+
+
+def _difference(analysis, left, right) -> str:
+    """Say how two cones in the same lattice differ: a ray of one outside the other."""
+    from .analysis import fmt_vec
+    for a, b, an, bn in ((left, right, "left", "right"), (right, left, "right", "left")):
+        for r in a.cone.rays + a.cone.lineality:
+            if not gcone.contains(b.cone, r):
+                return f"the ray {fmt_vec(a.space.from_coords(r))} of the {an} side is not in the {bn} side"
+        for l in a.cone.lineality:
+            neg = tuple(-x for x in l)
+            if not gcone.contains(b.cone, neg):
+                return f"the ray {fmt_vec(a.space.from_coords(neg))} of the {an} side is not in the {bn} side"
+    return "they have different descriptions"

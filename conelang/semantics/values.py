@@ -1,0 +1,96 @@
+"""Values that definitions evaluate to.  Immutable; geometry data in lattice coordinates.
+
+A :class:`Space` is a lattice as the user wrote it (``N``, ``dual N``, ``Z^3``): a
+:class:`conelang.geometry.lattice.Lattice` plus a side (the lattice itself or its dual), so
+that user ("ambient") coordinates and lattice coordinates can be converted both ways.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+
+from ..geometry import lattice as glat
+from ..geometry.cone import Cone
+
+Vec = tuple[int, ...]
+
+
+@dataclass(frozen=True)
+class Space:
+    key: str                 # identity of the underlying lattice (its defining name, or "Z^d")
+    lattice: glat.Lattice
+    is_dual: bool = False
+
+    @property
+    def rank(self) -> int:
+        return self.lattice.rank
+
+    @property
+    def label(self) -> str:
+        return f"dual {self.key}" if self.is_dual else self.key
+
+    def dual(self) -> "Space":
+        return Space(self.key, self.lattice, not self.is_dual)
+
+    def to_coords(self, v) -> Vec | None:
+        """Lattice coordinates of the user vector ``v``; None when ``v`` is not in the lattice."""
+        if self.is_dual:
+            return glat.dual_to_coords(self.lattice, v)
+        return glat.to_coords(self.lattice, v)
+
+    def from_coords(self, x) -> tuple[Fraction, ...]:
+        if self.is_dual:
+            return glat.dual_from_coords(self.lattice, x)
+        return glat.from_coords(self.lattice, x)
+
+    @property
+    def is_standard(self) -> bool:
+        return self.lattice.is_standard
+
+    @property
+    def coordinate_basis(self) -> tuple[tuple[Fraction, ...], ...]:
+        """The user coordinates of the basis in which lattice coordinates are taken."""
+        return tuple(self.from_coords(tuple(int(i == j) for j in range(self.rank))) for i in range(self.rank))
+
+
+@dataclass(frozen=True)
+class ConeValue:
+    space: Space
+    cone: Cone
+
+
+@dataclass(frozen=True)
+class MapValue:
+    source: Space
+    target: Space
+    matrix: tuple[Vec, ...]          # lattice coordinates: target_rank rows, source_rank columns
+    ambient_rows: tuple[tuple[Fraction, ...], ...]   # as written (user coordinates)
+
+
+@dataclass(frozen=True)
+class MorphismValue:
+    map_name: str
+    map: MapValue
+    source_name: str
+    target_name: str
+    source: ConeValue
+    target: ConeValue
+
+
+@dataclass(frozen=True)
+class CharactersValue:
+    space: Space                      # the lattice whose dual holds the characters (T = T_space)
+    characters: tuple[Vec, ...]       # in lattice coordinates of the dual of ``space``
+
+
+@dataclass(frozen=True)
+class FanValue:
+    space: Space
+    rays: tuple[Vec, ...]             # lattice coordinates, primitive
+    cones: tuple[tuple[int, ...], ...]  # 0-based index lists into rays
+    source_cone: str | None = None    # for ``resolve``: the cone that was resolved
+
+
+@dataclass(frozen=True)
+class LatticeValue:
+    space: Space
