@@ -387,25 +387,25 @@ class Analysis:
                     self.sink.warning(node.span, "not-primitive",
                                       f"the ray {node.source()} is not primitive; the primitive vector on this ray is {pv}",
                                       fixes=(Fix(f"replace by {pv}", node.span, pv),))
-            for i in gcone.redundant_generators(coords, d):
+            for i in self.engine.cached("redundant_generators", gcone.redundant_generators, tuple(coords), d):
                 node = rays[i][0]
                 self.sink.warning(node.span, "redundant-ray",
                                   f"the ray {node.source()} is not extremal: it is redundant in cone '{st.name.text}'",
                                   unnecessary=True,
                                   fixes=(Fix(f"remove the redundant ray {node.source()}", node.span, ""),))
-            return V.ConeValue(space, gcone.cone_from_rays(coords, d))
+            return V.ConeValue(space, self.engine.cached("cone_from_rays", gcone.cone_from_rays, tuple(coords), d))
         dual_space = space.dual()
         ineqs = self._vectors(seen["halfspaces"].vectors, dual_space, "inequality") if "halfspaces" in seen else []
         eqs = self._vectors(seen["equations"].vectors, dual_space, "equation") if "equations" in seen else []
         ic = [x for _, x in ineqs]
         ec = [x for _, x in eqs]
-        for i in gcone.redundant_inequalities(ic, ec, d):
+        for i in self.engine.cached("redundant_inequalities", gcone.redundant_inequalities, tuple(ic), tuple(ec), d):
             node = ineqs[i][0]
             self.sink.warning(node.span, "redundant-inequality",
                               f"the inequality {node.source()} ≥ 0 is redundant: it does not cut out a facet",
                               unnecessary=True,
                               fixes=(Fix(f"remove the redundant inequality {node.source()}", node.span, ""),))
-        return V.ConeValue(space, gcone.cone_from_inequalities(ic, ec, d))
+        return V.ConeValue(space, self.engine.cached("cone_from_inequalities", gcone.cone_from_inequalities, tuple(ic), tuple(ec), d))
 
     def _cone_expr(self, expr) -> V.ConeValue:
         if isinstance(expr, A.ConeRef):
