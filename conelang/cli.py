@@ -54,46 +54,56 @@ def _budget(value: str) -> int | None:
     return n
 
 
-def check_file(path: Path, budget_limit) -> tuple[list[str], int, int]:
-    """Diagnostics lines of one file, and its counts of errors and warnings."""
-    host = AnalysisHost(budget_limit)
-    uri = str(path)
-    host.apply_change(uri, _read(path))
-    a = host.analysis(uri)
-    lines, errors, warnings = [], 0, 0
-    for d in host.diagnostics(uri):
-        line, col = a.index.position(d.span[0])
-        lines.append(f"{path}:{line + 1}:{col + 1}: {d.severity}: {d.message} [{d.code}]")
-        errors += d.severity == "error"
-        warnings += d.severity == "warning"
-    return lines, errors, warnings
-
-
 def cmd_check(args) -> int:
+    from . import batch
     files = _cone_files(args.paths)
     if not files:
         raise UsageError("no .cone files found in " + " ".join(args.paths))
-    total_err = total_warn = failed = 0
-    unreadable = False
-    for path in files:
-        try:
-            lines, errors, warnings = check_file(path, args.budget)
-        except UsageError as exc:
-            print(f"conelang: {exc}", file=sys.stderr)
-            unreadable = True
-            continue
-        for line in lines:
+    progress = batch.Progress() if (args.progress or len(files) >= 200) else None
+    try:
+        results = batch.run([str(f) for f in files], jobs=args.jobs or batch.default_jobs(),
+                            budget_limit=args.budget, progress=progress, scheduler=args.scheduler)
+    except RuntimeError as exc:
+        raise UsageError(str(exc)) from None
+    for r in results:
+        for line in r["lines"]:
             print(line)
-        total_err += errors
-        total_warn += warnings
-        failed += errors > 0
+        if r["status"] == "unreadable":
+            print(f"conelang: {r['path']}: {r['message']}", file=sys.stderr)
+    summ = batch.summary(results)
     if len(files) > 1 or args.summary:
-        print(f"checked {len(files)} file{'s' * (len(files) != 1)}: {failed} with errors, "
-              f"{total_err} error{'s' * (total_err != 1)}, {total_warn} warning{'s' * (total_warn != 1)}",
-              file=sys.stderr)
-    if unreadable:
+        n, e, w = summ["files"], summ["errors"], summ["warnings"]
+        print(f"checked {n} file{'s' * (n != 1)}: {summ['failed']} with errors, "
+              f"{e} error{'s' * (e != 1)}, {w} warning{'s' * (w != 1)}"
+              + (f", {summ['unreadable']} unreadable" if summ["unreadable"] else ""), file=sys.stderr)
+    if args.json_summary:
+        import json
+        text = json.dumps(summ, indent=2)
+        if args.json_summary == "-":
+            print(text)
+        else:
+            _write_atomic(Path(args.json_summary), text + "\n")
+    if summ["unreadable"]:
         return 2
-    return 1 if total_err else 0
+    return 1 if summ["failed"] else 0
+
+
+def _write_atomic(path: Path, text: str) -> None:
+    """Write via a temporary file in the same folder and an atomic rename."""
+    import tempfile
+    fd, tmp = tempfile.mkstemp(dir=str(path.parent or "."), prefix=f".{path.name}.", suffix=".tmp")
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            fh.write(text)
+            fh.flush()
+            os.fsync(fh.fileno())
+        os.replace(tmp, path)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise
 
 
 def cmd_show(args) -> int:
@@ -144,6 +154,12 @@ def build_parser() -> argparse.ArgumentParser:
     c.add_argument("paths", nargs="+", metavar="PATH")
     c.add_argument("--budget", type=_budget, default=gbudget.DEFAULT_LIMIT, help=budget_help)
     c.add_argument("--summary", action="store_true", help="print a summary line even for one file")
+    c.add_argument("--jobs", "-j", type=int, default=0, metavar="N",
+                   help="check files in N parallel processes (default: one per core)")
+    c.add_argument("--progress", action="store_true", help="show progress on stderr (automatic from 200 files)")
+    c.add_argument("--json-summary", metavar="FILE", help="write a JSON summary for CI to FILE ('-' for stdout)")
+    c.add_argument("--scheduler", metavar="ADDRESS",
+                   help="hand the files to a dask.distributed scheduler (needs conelang[distributed])")
     c.set_defaults(run=cmd_check)
 
     s = sub.add_parser("show", help="print the computed facts of a file's objects")

@@ -1,0 +1,141 @@
+"""Batch checking of many files: locally in parallel, or on a dask.distributed cluster.
+
+Each file is checked on its own (:func:`check_path`), so the verdicts do not depend on how the
+work is spread; results come back in the order of the input, so the output is deterministic.
+
+>>> import tempfile, pathlib
+>>> d = pathlib.Path(tempfile.mkdtemp()); (d / "a.cone").write_text("lattice N = Z^2\\n")
+16
+>>> [r["status"] for r in run([str(d / "a.cone")], jobs=1)]
+['ok']
+"""
+from __future__ import annotations
+
+import os
+import sys
+import time
+from concurrent.futures import ProcessPoolExecutor
+from pathlib import Path
+
+
+def check_path(path: str, budget_limit=None) -> dict:
+    """Check one file; never raises.  Returns a plain dict (picklable, JSON-ready)."""
+    from .host import AnalysisHost
+    p = Path(path)
+    try:
+        text = p.read_text(encoding="utf-8")
+    except UnicodeDecodeError as exc:
+        return {"path": path, "status": "unreadable", "message": f"not UTF-8 text ({exc.reason} at byte {exc.start})",
+                "lines": [], "errors": 0, "warnings": 0}
+    except OSError as exc:
+        return {"path": path, "status": "unreadable", "message": f"cannot read ({exc.strerror})",
+                "lines": [], "errors": 0, "warnings": 0}
+    t0 = time.perf_counter()
+    host = AnalysisHost(budget_limit)
+    host.apply_change(path, text)
+    a = host.analysis(path)
+    lines, errors, warnings = [], 0, 0
+    for d in host.diagnostics(path):
+        line, col = a.index.position(d.span[0])
+        lines.append(f"{path}:{line + 1}:{col + 1}: {d.severity}: {d.message} [{d.code}]")
+        errors += d.severity == "error"
+        warnings += d.severity == "warning"
+    return {"path": path, "status": "failed" if errors else "ok", "message": "", "lines": lines,
+            "errors": errors, "warnings": warnings, "seconds": round(time.perf_counter() - t0, 4)}
+
+
+def _check_many(paths: list[str], budget_limit) -> list[dict]:
+    return [check_path(p, budget_limit) for p in paths]
+
+
+def _chunks(items: list, size: int) -> list[list]:
+    return [items[i:i + size] for i in range(0, len(items), size)]
+
+
+def run(paths: list[str], jobs: int = 1, budget_limit=None, progress=None, scheduler: str | None = None,
+        client=None) -> list[dict]:
+    """Check ``paths``; ``jobs`` local processes, or a dask.distributed ``scheduler`` address
+    (or an existing ``client``).  ``progress(done, total)`` is called as results arrive."""
+    total = len(paths)
+    if scheduler is not None or client is not None:
+        return _run_dask(paths, budget_limit, progress, scheduler, client)
+    if jobs <= 1 or total <= 1:
+        out = []
+        for i, p in enumerate(paths, 1):
+            out.append(check_path(p, budget_limit))
+            if progress:
+                progress(i, total)
+        return out
+    # several files per task keeps the per-task overhead small; results stay in input order
+    size = max(1, min(32, total // (jobs * 4) or 1))
+    chunks = _chunks(paths, size)
+    out: list[dict] = []
+    with ProcessPoolExecutor(max_workers=jobs) as pool:
+        for res in pool.map(_check_many, chunks, [budget_limit] * len(chunks)):
+            out.extend(res)
+            if progress:
+                progress(len(out), total)
+    return out
+
+
+def _run_dask(paths, budget_limit, progress, scheduler, client):
+    try:
+        from dask.distributed import Client, as_completed
+    except ImportError:
+        raise RuntimeError("distributed checking needs the optional extra: pip install 'conelang[distributed]'") from None
+    own = client is None
+    if own:
+        client = Client(scheduler)
+    try:
+        chunks = _chunks(paths, 16)
+        futures = client.map(_check_many, chunks, budget_limit=budget_limit, pure=False)
+        index = {f.key: i for i, f in enumerate(futures)}
+        results: list = [None] * len(chunks)
+        done = 0
+        for fut in as_completed(futures):
+            res = fut.result()
+            results[index[fut.key]] = res
+            done += len(res)
+            if progress:
+                progress(done, len(paths))
+        return [r for chunk in results for r in chunk]
+    finally:
+        if own:
+            client.close()
+
+
+def summary(results: list[dict]) -> dict:
+    return {
+        "files": len(results),
+        "failed": sum(r["status"] == "failed" for r in results),
+        "unreadable": sum(r["status"] == "unreadable" for r in results),
+        "errors": sum(r["errors"] for r in results),
+        "warnings": sum(r["warnings"] for r in results),
+        "results": [{k: r[k] for k in ("path", "status", "errors", "warnings", "message")} for r in results],
+    }
+
+
+def default_jobs() -> int:
+    return max(1, len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else (os.cpu_count() or 1))
+
+
+class Progress:
+    """Progress on stderr for long runs: one line, rewritten in place on a terminal."""
+
+    def __init__(self, stream=None, min_files: int = 20):
+        self.stream = stream or sys.stderr
+        self.min_files = min_files
+        self.tty = getattr(self.stream, "isatty", lambda: False)()
+        self.last = 0.0
+
+    def __call__(self, done: int, total: int) -> None:
+        if total < self.min_files:
+            return
+        now = time.monotonic()
+        if done < total and now - self.last < 0.5:
+            return
+        self.last = now
+        end = "\r" if self.tty and done < total else "\n"
+        if not self.tty and done < total and done % max(1, total // 10):
+            return
+        print(f"checked {done}/{total} files", end=end, file=self.stream, flush=True)
