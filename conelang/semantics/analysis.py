@@ -253,9 +253,30 @@ class Analysis:
     def evaluate_all(self) -> None:
         if self._evaluated_all:
             return
-        for name in self.defs:
+        for name in self.topological_order():
             self.value(name)
         self._evaluated_all = True
+
+    def topological_order(self) -> list[str]:
+        """Definitions with what they use first (iteratively: long chains need no deep recursion)."""
+        order, state = [], {}
+        for root in self.defs:
+            if root in state:
+                continue
+            stack = [(root, iter(sorted(self.deps.get(root, ()))))]
+            state[root] = 1
+            while stack:
+                node, it = stack[-1]
+                for w in it:
+                    if w not in state:
+                        state[w] = 1
+                        stack.append((w, iter(sorted(self.deps.get(w, ())))))
+                        break
+                else:
+                    stack.pop()
+                    state[node] = 2
+                    order.append(node)
+        return order
 
     def _fail(self, span, code, message, **kw):
         self.sink.error(span, code, message, **kw)

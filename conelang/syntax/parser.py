@@ -84,6 +84,8 @@ def parse(text: str) -> A.Module:
             module.statements.append(_Builder(start).statement(tree.children[0]))
         except _BuildError as exc:
             module.errors.append(A.SyntaxError_(exc.message, exc.span, (start, end)))
+        except RecursionError:
+            module.errors.append(A.SyntaxError_("statement is nested too deeply", (start, end), (start, end)))
     return module
 
 
