@@ -97,9 +97,42 @@ class Engine:
         self.require_pointed(cone)
         return self.cached("resolve", fan.resolve, cone)
 
+    def _coordinates(self, cone):
+        """The generators z1..zr of the affine toric variety of a pointed cone (the Hilbert basis
+        of its dual, in the variety's order)."""
+        try:
+            from ..geometry import toric  # noqa: F401
+        except ImportError:
+            return self.hilbert_basis(self.dual(cone))
+        return tuple(self.variety(cone).generators)
+
+    def morphism_kinds(self, value):
+        """:class:`conelang.geometry.maps.MorphismKinds` of a morphism value (its map must send
+        the source cone into the target cone; NotAvailable otherwise)."""
+        from ..geometry import maps
+        matrix, s, t = value.map.matrix, value.source.cone, value.target.cone
+        self.require_pointed(s)
+        self.require_pointed(t)
+        if not maps.is_compatible(matrix, s, t):
+            raise NotAvailable(f"'{value.map_name}' does not send '{value.source_name}' into "
+                               f"'{value.target_name}', so there is no morphism")
+        return self.cached("morphism_kinds", maps.classify, matrix, s, t)
+
     def morphism(self, value):
-        """Pullbacks and torus map of a toric morphism (see :mod:`conelang.geometry.maps`)."""
-        raise NotAvailable("pullbacks of toric morphisms are not computed in this version")
+        """Pullbacks, torus map and kinds of a toric morphism (see :mod:`conelang.geometry.maps`),
+        as the JSON-ready dict merged into the morphism's facts: ``pullbacks`` (target
+        coordinate w_j as a monomial in the source coordinates z_i), ``pullback_exponents``,
+        ``torus`` (t'_k as Laurent monomials in t_i), ``kinds`` and ``degree``."""
+        from ..geometry import maps
+        kinds = self.morphism_kinds(value)
+        matrix, s, t = value.map.matrix, value.source.cone, value.target.cone
+        sg, tg = self._coordinates(s), self._coordinates(t)
+        exps = self.cached("pullback_exponents", maps.pullback_exponents, matrix, s, t, sg, tg)
+        return {"pullbacks": [maps.monomial_string(a) for a in exps],
+                "pullback_exponents": [list(a) for a in exps],
+                "torus": list(maps.torus_map(matrix, value.map.source.rank)),
+                "kinds": list(kinds.kinds()),
+                "degree": kinds.degree}
 
     def fan_facts(self, value):
         raise NotAvailable("fan properties are not computed in this version")

@@ -120,10 +120,97 @@ def _normal(a, v):
     return a.engine.characters(v.characters).normal
 
 
+# ---- maps ---------------------------------------------------------------------------------
+# Properties of the lattice map f : N -> N' itself (lattice coordinates, exact).
+@prop("map", "injective", BOOL, "f : N → N' is injective")
+def _map_injective(a, v):
+    from ..geometry import maps
+    return maps.is_injective(v.matrix, v.source.rank)
+
+
+@prop("map", "surjective", BOOL, "f : N → N' is surjective (onto the lattice, not just of full rank)")
+def _map_surjective(a, v):
+    from ..geometry import maps
+    return maps.is_surjective(v.matrix, v.source.rank)
+
+
+@prop("map", "isomorphism", BOOL, "f : N → N' is an isomorphism of lattices")
+def _map_isomorphism(a, v):
+    from ..geometry import maps
+    return maps.is_isomorphism(v.matrix, v.source.rank)
+
+
+@prop("map", "rank", INT, "rank of f (dimension of its image)")
+def _map_rank(a, v):
+    from ..geometry import maps
+    return maps.rank(v.matrix, v.source.rank)
+
+
+@prop("map", "cokernel", GROUP, "the cokernel N'/f(N), e.g. \"Z/7\" or \"Z\"")
+def _map_cokernel(a, v):
+    from ..geometry import maps
+    return maps.cokernel(v.matrix, v.source.rank)
+
+
 # ---- morphisms ----------------------------------------------------------------------------
-@prop("morphism", "compatible", BOOL, "the map sends the source cone into the target cone")
+# A morphism whose map does not send the source cone into the target cone is an
+# `incompatible-morphism` error, except when the file says so itself: if some
+# `expect phi not compatible` names it, the analysis keeps the value (compatibility is
+# recomputed from the map and the cones, there is no flag), reports nothing at the
+# definition, and this expectation holds.  Such a value is not a morphism of varieties:
+# every other morphism property then reports that it cannot be checked, and composing it
+# is an error.  The kinds of morphism are decided by `conelang.geometry.maps.classify`.
+def violation_message(v) -> str | None:
+    """Why the map of a morphism value does not send the source into the target (user
+    coordinates: the ray, its image, the violated inequality or equation and its value), or
+    None when it does."""
+    from ..geometry import maps
+    from .analysis import fmt_vec
+    bad = maps.first_violation(v.map.matrix, v.source.cone, v.target.cone)
+    if bad is None:
+        return None
+    ray, img, normal, val, is_eq = bad
+    rv = fmt_vec(v.source.space.from_coords(ray))
+    iv = fmt_vec(v.target.space.from_coords(img))
+    nv = fmt_vec(v.target.space.dual().from_coords(normal))
+    if is_eq:
+        what = (f"which violates the equation <{nv}, v> = 0 of the span of '{v.target_name}': "
+                f"<{nv}, {iv}> = {val} ≠ 0")
+    else:
+        what = (f"which violates the inequality <{nv}, v> ≥ 0 of '{v.target_name}': "
+                f"<{nv}, {iv}> = {val} < 0")
+    return (f"'{v.map_name}' does not send '{v.source_name}' into '{v.target_name}': it sends the ray "
+            f"{rv} of '{v.source_name}' to {iv}, {what}")
+
+
+@prop("morphism", "compatible", BOOL, "the map sends the source cone into the target cone (f(σ) ⊆ τ)")
 def _compatible(a, v):
-    return True   # an incompatible morphism is an error and has no value
+    from ..geometry import maps
+    return maps.is_compatible(v.map.matrix, v.source.cone, v.target.cone)
+
+
+def _kind_prop(name: str, doc: str):
+    def compute(a, v):
+        return getattr(a.engine.morphism_kinds(v), name)
+    prop("morphism", name, OPT_INT if name == "degree" else BOOL, doc)(compute)
+
+
+for _name, _doc in (
+        ("isomorphism", "f is a lattice isomorphism with f(σ) = τ: U_σ ≅ U_τ"),
+        ("open_embedding", "f is a lattice isomorphism and f(σ) is a face of τ: U_σ is an open affine piece of U_τ"),
+        ("closed_embedding", "f^*(τ^∨ ∩ M') = σ^∨ ∩ M: the pullback of coordinate rings is onto"),
+        ("quotient", "f is injective of finite index and f(σ) = τ: U_τ = U_σ / (N'/f(N))"),
+        ("finite", "σ = f^-1(τ): the morphism is finite (proper)"),
+        ("birational", "f is a lattice isomorphism: the morphism is an isomorphism of tori"),
+        ("subdivision_piece", "f is a lattice isomorphism and f(σ) ⊆ τ is not a face: a chart of a subdivision of τ"),
+        ("dominant", "f has full rank: the image is dense in U_τ"),
+        ("surjective", "the morphism U_σ → U_τ is onto (dominant and every face of τ is hit by a face of σ)"),
+        ("injective", "the morphism U_σ → U_τ is one-to-one on points (faces go to distinct faces, orbit maps injective)"),
+        ("lattice_injective", "the lattice map f : N → N' is injective"),
+        ("lattice_surjective", "the lattice map f : N → N' is surjective"),
+        ("degree", "|N'/f(N)| = degree of the morphism when f is square of full rank (none otherwise)")):
+    _kind_prop(_name, _doc)
+del _name, _doc
 
 
 # ---- checking -------------------------------------------------------------------------------
