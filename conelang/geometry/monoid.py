@@ -1,0 +1,473 @@
+"""Hilbert bases of the monoids ``σ ∩ Z^d`` and decompositions into them.
+
+Everything is in lattice coordinates (see :mod:`conelang.geometry`).
+
+Method (for a pointed cone)
+---------------------------
+1. Restrict to the lattice ``Λ = span(σ) ∩ Z^d`` (saturated, of rank ``k = dim σ``), in which
+   σ is full-dimensional; see :func:`pointed_model`.
+2. Triangulate σ without new rays (a *pulling* triangulation: pull the first ray, cone it over
+   the recursively triangulated facets that do not contain it).
+3. For every simplicial cone ``τ = cone(g_1, ..., g_k)`` of the triangulation enumerate the
+   lattice points of its half-open fundamental parallelepiped ``{Σ λ_i g_i : 0 <= λ_i < 1}``.
+   They are the images of the finite group ``Z^k / (Z g_1 + ... + Z g_k)`` and are read off the
+   Smith normal form ``U G V = D`` of the generator matrix ``G``: the class of ``c`` in
+   ``⊕ Z/d_i`` has coefficients ``λ = frac(Σ_i (c_i / d_i) U_i)``.  There are ``|det G|``
+   of them (the *index* of τ), which is the cost estimate given to the budget.
+4. Every irreducible element of ``σ ∩ Z^k`` is a ray generator or one of these points, so the
+   Hilbert basis is the set of candidates ``x`` such that ``x - y ∉ σ`` for every smaller
+   irreducible candidate ``y``; "smaller" refers to a positive grading (the sum of the facet
+   normals), which makes one pass in increasing degree sufficient.
+
+Cones with lineality
+--------------------
+For a cone that is not pointed, let ``L = lin(σ) ∩ Z^d`` (its lineality lattice, rank ``l``)
+and ``Λ = span(σ) ∩ Z^d``.  The *pointed part* of σ is its image ``σ̄`` in ``Λ / L ≅ Z^(k-l)``,
+a pointed full-dimensional cone.  Its Hilbert basis is lifted back to ``Λ`` by a fixed linear
+section ``s : Λ / L → Λ`` (the lift of each basis vector is reduced modulo the Hermite basis
+of ``L``, so the section depends only on σ).  Because the section is linear,
+``σ ∩ Z^d = s(σ̄ ∩ Z^(k-l)) ⊕ L`` as monoids, and the returned Hilbert basis is the lifted
+Hilbert basis of σ̄ followed by ``u, -u`` for each vector ``u`` of the Hermite basis of ``L``.
+
+>>> hilbert_basis(cone_from_rays([(0, 1), (3, -2)], 2))
+((3, -2), (2, -1), (1, 0), (0, 1))
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import cache
+from itertools import product
+from typing import Sequence
+
+from . import linalg
+from .budget import Budget, ensure
+from .cone import Cone, contains, cone_from_rays
+from .linalg import Vec, dot, primitive
+
+__all__ = [
+    "PointedModel", "pointed_model", "hilbert_basis", "hilbert_basis_bruteforce", "decompose",
+    "triangulate", "parallelepiped_points", "grading", "canonical_order",
+]
+
+
+# ---------------------------------------------------------------------------------------------
+# coordinates: the pointed full-dimensional model of a cone
+
+
+@dataclass(frozen=True)
+class PointedModel:
+    """σ seen as a pointed full-dimensional cone ``cone`` in ``Z^k = Λ / L``.
+
+    ``projection`` (k rows of length d) maps a point ``v`` of ``Λ = span(σ) ∩ Z^d`` to its
+    coordinates ``(<p_1, v>, ..., <p_k, v>)`` in ``Λ / L``; ``section`` (k vectors of Z^d) is
+    the linear lift ``x ↦ Σ x_j s_j``; ``lineality`` is the Hermite basis of
+    ``L = lin(σ) ∩ Z^d``.  On Λ: ``project(lift(x)) = x`` and ``v - lift(project(v)) ∈ L``.
+
+    >>> m = pointed_model(cone_from_rays([(1, 0, 0), (1, 2, 0)], 3))
+    >>> m.cone.rays, m.project((1, 1, 0)), m.lift((1, 1))
+    (((1, 0), (1, 2)), (1, 1), (1, 1, 0))
+    """
+
+    source: Cone
+    cone: Cone
+    projection: tuple[Vec, ...]
+    section: tuple[Vec, ...]
+    lineality: tuple[Vec, ...]
+
+    def project(self, v: Sequence[int]) -> Vec:
+        """Coordinates in ``Λ / L`` of a point ``v`` of ``Λ``."""
+        return tuple(dot(p, v) for p in self.projection)
+
+    def lift(self, x: Sequence[int]) -> Vec:
+        """The point ``Σ x_j s_j`` of Λ (the fixed linear lift)."""
+        out = [0] * self.source.ambient_dim
+        for c, s in zip(x, self.section):
+            if c:
+                for i, y in enumerate(s):
+                    out[i] += c * y
+        return tuple(out)
+
+
+def _right_inverse(rows: Sequence[Vec], n: int) -> tuple[Vec, ...]:
+    """For a k x n integer matrix ``B`` whose rows span a saturated lattice, an n x k integer
+    matrix ``C`` with ``B C = I_k`` (returned as its n rows)."""
+    k = len(rows)
+    if k == 0:
+        return tuple(() for _ in range(n))
+    D, U, V = linalg.smith(rows, n)
+    if any(D[i][i] != 1 for i in range(k)):
+        raise ValueError("rows do not span a saturated lattice")
+    # B V [I;0] U = U^-1 D V^-1 V [I;0] U = I
+    return tuple(tuple(sum(V[r][i] * U[i][j] for i in range(k)) for j in range(k))
+                 for r in range(n))
+
+
+def _reduce_mod_hnf(v: Sequence[int], h: Sequence[Vec]) -> Vec:
+    """Canonical representative of ``v + lattice(h)`` for ``h`` in row Hermite normal form."""
+    v = list(v)
+    for row in h:
+        c = next(i for i, x in enumerate(row) if x)
+        q = v[c] // row[c]
+        if q:
+            v = [a - q * b for a, b in zip(v, row)]
+    return tuple(v)
+
+
+def pointed_model(c: Cone) -> PointedModel:
+    """The pointed full-dimensional model of a cone (see the module docstring and
+    :class:`PointedModel`).  For a pointed full-dimensional cone this is the cone itself with
+    identity coordinates.
+
+    The half-plane ``{x >= y}`` = cone((1, -1)) + span((1, 1)): its pointed part is the ray
+    of ``Z^2 / Z(1, 1) ≅ Z`` (coordinate ``x - y``), lifted by ``1 ↦ (0, -1)``.
+
+    >>> m = pointed_model(cone_from_rays([(1, -1)], 2, lineality=[(1, 1)]))
+    >>> m.cone.rays, m.projection, m.section, m.lineality
+    (((1,),), ((1, -1),), ((0, -1),), ((1, 1),))
+    >>> m.project((1, 0)), m.project((1, -1))
+    ((1,), (2,))
+    """
+    d = c.ambient_dim
+    if c.pointed and c.full:
+        ident = linalg.identity(d)
+        return PointedModel(c, c, ident, ident, ())
+    lin = linalg.saturate(c.lineality, d) if c.lineality else ()
+    # basis B of Λ = span ∩ Z^d and integer coordinates x = v C on Λ
+    B = linalg.kernel_basis(c.equations, d) if c.equations else linalg.identity(d)
+    m = len(B)
+    C = _right_inverse(B, d)                          # d x m, B C = I
+    if lin:
+        Lc = [linalg.vec_mat(v, C, m) for v in lin]   # lineality in Λ-coordinates
+        W = linalg.kernel_basis(Lc, m)                # k x m, saturated, kernel = Lc
+    else:
+        W = linalg.identity(m)
+    k = len(W)
+    # projection v -> v C W^T, as k functionals on Z^d
+    proj = tuple(tuple(sum(C[r][i] * w[i] for i in range(m)) for r in range(d)) for w in W)
+    R = _right_inverse(W, m)                          # m x k, W R = I
+    section = []
+    for j in range(k):
+        coords = tuple(R[i][j] for i in range(m))     # W coords = e_j
+        s = linalg.vec_mat(coords, B, d)
+        section.append(_reduce_mod_hnf(s, lin))
+    section = tuple(section)
+    rays = sorted(set(primitive(tuple(dot(p, r) for p in proj)) for r in c.rays))
+    facets = sorted(set(primitive(tuple(dot(s, u) for s in section)) for u in c.facets))
+    model = Cone(k, tuple(rays), (), tuple(facets), ())
+    return PointedModel(c, model, proj, section, lin)
+
+
+# ---------------------------------------------------------------------------------------------
+# triangulation and parallelepipeds
+
+
+def triangulate(c: Cone, budget: Budget | None = None) -> tuple[tuple[int, ...], ...]:
+    """A triangulation of a pointed full-dimensional cone without new rays, as tuples of
+    indices into ``c.rays`` (each of length ``dim c``).  It is the pulling triangulation for
+    the order of the rays: the cone over the first ray and the (recursively triangulated)
+    facets not containing it.
+
+    >>> sq = cone_from_rays([(0, 0, 1), (1, 0, 1), (0, 1, 1), (1, 1, 1)], 3)
+    >>> triangulate(sq)
+    ((0, 1, 3), (0, 2, 3))
+    """
+    if not (c.pointed and c.full):
+        raise ValueError("triangulate needs a pointed full-dimensional cone")
+    budget = ensure(budget)
+    k = c.ambient_dim
+    n = len(c.rays)
+    if k == 0:
+        return ((),)
+    if n == k:
+        return (tuple(range(n)),)
+    inc = [frozenset(i for i, r in enumerate(c.rays) if dot(u, r) == 0) for u in c.facets]
+
+    @cache
+    def tri(face: frozenset, m: int) -> tuple[tuple[int, ...], ...]:
+        if len(face) == m:
+            return (tuple(sorted(face)),)
+        budget.tick(len(inc), "triangulation", f"{n} rays in dimension {k}")
+        apex = min(face)
+        cand = {face & f for f in inc if not face <= f}
+        facets = [s for s in cand if not any(s < t for t in cand)]
+        out = []
+        for s in sorted(facets, key=sorted):
+            if apex in s:
+                continue
+            for simplex in tri(s, m - 1):
+                out.append(tuple(sorted((apex,) + simplex)))
+        return tuple(out)
+
+    return tuple(sorted(tri(frozenset(range(n)), k)))
+
+
+def parallelepiped_points(gens: Sequence[Vec]) -> tuple[Vec, ...]:
+    """The lattice points ``Σ λ_i g_i`` with ``0 <= λ_i < 1`` for linearly independent
+    generators spanning ``Q^k`` (there are ``|det|`` of them, including 0), via the Smith
+    normal form of the generator matrix.
+
+    >>> sorted(parallelepiped_points([(1, 0), (1, 3)]))
+    [(0, 0), (1, 1), (1, 2)]
+    """
+    k = len(gens)
+    if k == 0:
+        return ((),)
+    D, U, _ = linalg.smith(gens, k)
+    ds = [D[i][i] for i in range(k)]
+    if any(x == 0 for x in ds):
+        raise ValueError("generators are linearly dependent")
+    delta = ds[-1]
+    nontriv = [i for i in range(k) if ds[i] > 1]
+    # lambda * delta = Σ c_i (delta / d_i) U_i  (mod delta)
+    steps = [tuple(x * (delta // ds[i]) for x in U[i]) for i in nontriv]
+    out = []
+    for cs in product(*[range(ds[i]) for i in nontriv]):
+        lam = [0] * k
+        for ci, st in zip(cs, steps):
+            if ci:
+                for j in range(k):
+                    lam[j] += ci * st[j]
+        lam = [x % delta for x in lam]
+        pt = tuple(sum(lam[i] * gens[i][j] for i in range(k)) // delta for j in range(k))
+        out.append(pt)
+    return tuple(out)
+
+
+# ---------------------------------------------------------------------------------------------
+# Hilbert bases
+
+
+def grading(c: Cone) -> Vec:
+    """A positive grading of a pointed cone: the sum of its facet normals, which is positive
+    on every nonzero point (for the zero cone: the zero vector).
+
+    >>> grading(cone_from_rays([(1, 0), (1, 2)], 2))   # facets (0, 1) and (2, -1)
+    (2, 0)
+    """
+    if not c.pointed:
+        raise ValueError("a cone with lineality has no positive grading")
+    w = [0] * c.ambient_dim
+    for u in c.facets:
+        w = [a + b for a, b in zip(w, u)]
+    if c.dim == 1 and not c.facets:
+        w = list(c.rays[0])
+    return tuple(w)
+
+
+def canonical_order(vectors) -> tuple[Vec, ...]:
+    """The canonical order of Hilbert basis elements: decreasing lexicographic.
+
+    >>> canonical_order([(0, 1), (1, 0), (1, 1)])
+    ((1, 1), (1, 0), (0, 1))
+    """
+    return tuple(sorted(set(tuple(v) for v in vectors), reverse=True))
+
+
+def _hilbert_basis_full(c: Cone, budget: Budget, what: str) -> list[Vec]:
+    """Hilbert basis of a pointed full-dimensional cone in Z^k (unsorted)."""
+    k = c.ambient_dim
+    if k == 0:
+        return []
+    rays = c.rays
+    simplices = triangulate(c, budget)
+    gens = [[rays[i] for i in s] for s in simplices]
+    dets = [abs(linalg.det(g)) for g in gens]
+    total = sum(dets)
+    budget.check(total * k, what, f"about {total} lattice points to enumerate")
+    cand = set(rays)
+    for g, dt in zip(gens, dets):
+        if dt > 1:
+            budget.tick(dt * k, what, f"about {total} lattice points to enumerate")
+            cand.update(p for p in parallelepiped_points(g) if any(p))
+    facets = c.facets
+    fvals = {x: tuple(dot(u, x) for u in facets) for x in cand}
+    w = grading(c)
+    by_deg: dict[int, list[Vec]] = {}
+    for x in cand:
+        by_deg.setdefault(dot(w, x), []).append(x)
+    basis: list[Vec] = []
+    bvals: list[tuple[int, ...]] = []
+    for deg in sorted(by_deg):
+        level = by_deg[deg]
+        budget.tick(len(level) * (len(basis) + 1), what, f"{len(cand)} candidates")
+        new = []
+        for x in level:
+            fx = fvals[x]
+            if not any(all(a <= b for a, b in zip(fy, fx)) for fy in bvals):
+                new.append(x)
+        basis.extend(new)
+        bvals.extend(fvals[x] for x in new)
+    return basis
+
+
+def hilbert_basis(c: Cone, budget: Budget | None = None) -> tuple[Vec, ...]:
+    """The minimal generators of the monoid ``c ∩ Z^d`` in canonical order.
+
+    For a pointed cone: its Hilbert basis in decreasing lexicographic order.  Otherwise: the
+    lifted Hilbert basis of the pointed part (see the module docstring) in decreasing
+    lexicographic order, followed by ``u, -u`` for each vector ``u`` of the Hermite basis of
+    the lineality lattice.  The zero cone gives ``()``.
+
+    >>> hilbert_basis(cone_from_rays([(1, 0), (1, 2)], 2))
+    ((1, 2), (1, 1), (1, 0))
+    >>> hilbert_basis(cone_from_rays([(0, 1)], 2, lineality=[(1, 0)]))
+    ((0, 1), (1, 0), (-1, 0))
+    >>> hilbert_basis(cone_from_rays([], 2))
+    ()
+    """
+    budget = ensure(budget)
+    what = "Hilbert basis"
+    m = pointed_model(c)
+    hb = _hilbert_basis_full(m.cone, budget, what)
+    out = list(canonical_order(m.lift(x) for x in hb))
+    for u in m.lineality:
+        out.append(tuple(u))
+        out.append(tuple(-x for x in u))
+    return tuple(out)
+
+
+def hilbert_basis_bruteforce(c: Cone, bound: int) -> tuple[Vec, ...]:
+    """Reference implementation for tests: the irreducible elements of ``c ∩ Z^d`` among the
+    points of the box ``[-bound, bound]^d``, assuming the cone is pointed and its Hilbert
+    basis lies in the box (then the answer is exact), in canonical order.
+
+    >>> hilbert_basis_bruteforce(cone_from_rays([(1, 0), (1, 2)], 2), 2)
+    ((1, 2), (1, 1), (1, 0))
+    """
+    if not c.pointed:
+        raise ValueError("brute force only for pointed cones")
+    d = c.ambient_dim
+    pts = [p for p in product(range(-bound, bound + 1), repeat=d) if any(p) and contains(c, p)]
+    ptset = set(pts)
+    out = []
+    for p in pts:
+        reducible = False
+        for q in pts:
+            r = tuple(a - b for a, b in zip(p, q))
+            if any(r) and r in ptset:
+                reducible = True
+                break
+        if not reducible:
+            out.append(p)
+    return canonical_order(out)
+
+
+# ---------------------------------------------------------------------------------------------
+# decomposition
+
+
+def decompose(point: Sequence[int], basis: Sequence[Sequence[int]], c: Cone,
+              budget: Budget | None = None) -> tuple[int, ...]:
+    """Non-negative integer coefficients ``a`` with ``point = Σ a_i basis[i]``.
+
+    ``basis`` must consist of points of ``c``; its elements inside the lineality space must
+    come with their negatives (as in :func:`hilbert_basis`).  The search is exact: greedy
+    in decreasing degree of the pointed part, with backtracking (which is never needed when
+    ``basis`` contains a Hilbert basis).  Raises ``ValueError`` when ``point`` is not in ``c``
+    or is not a non-negative combination of ``basis``.
+
+    >>> c = cone_from_rays([(1, 0), (1, 2)], 2)
+    >>> decompose((3, 4), hilbert_basis(c), c)
+    (2, 0, 1)
+    >>> decompose((1, 0), [(1, 0), (-1, 0)], cone_from_rays([], 2, lineality=[(1, 0)]))
+    (1, 0)
+    """
+    budget = ensure(budget)
+    point = tuple(point)
+    basis = [tuple(b) for b in basis]
+    if not contains(c, point):
+        raise ValueError(f"{point} is not in the cone")
+    for b in basis:
+        if not contains(c, b):
+            raise ValueError(f"basis element {b} is not in the cone")
+    m = pointed_model(c)
+    k = m.cone.ambient_dim
+    proj = [m.project(b) for b in basis]
+    units = [i for i, p in enumerate(proj) if not any(p)]
+    rest = [i for i, p in enumerate(proj) if any(p)]
+    w = grading(m.cone) if k else ()
+    rest.sort(key=lambda i: (-dot(w, proj[i]), i))
+    unit_vecs = [basis[i] for i in units]
+    neg_of = {}
+    for i in units:
+        negb = tuple(-x for x in basis[i])
+        j = next((j for j in units if basis[j] == negb), None)
+        if j is None:
+            raise ValueError(f"basis element {basis[i]} is a unit whose negative is missing")
+        neg_of[i] = j
+    target = m.project(point)
+    facets = m.cone.facets
+    d = c.ambient_dim
+    unit_mat = linalg.transpose(unit_vecs, d) if units else ()
+    # the remainder in L must lie in the group U generated by the units; when U = L every
+    # remainder does, and failures depend only on the pointed part (memoisation is sound)
+    units_span_all = (not m.lineality) or (
+        bool(units) and linalg.hnf(unit_vecs, d) == linalg.hnf(m.lineality, d))
+
+    def unit_part(chosen: dict[int, int]) -> dict[int, int] | None:
+        r = list(point)
+        for i, a in chosen.items():
+            r = [x - a * y for x, y in zip(r, basis[i])]
+        if not any(r):
+            return dict(chosen)
+        if not units:
+            return None
+        y = linalg.solve_integer(unit_mat, tuple(r), len(units))
+        if y is None:
+            return None
+        coef = dict(chosen)
+        for i, yi in zip(units, y):
+            if yi > 0:
+                coef[i] = coef.get(i, 0) + yi
+            elif yi < 0:
+                coef[neg_of[i]] = coef.get(neg_of[i], 0) - yi
+        return coef
+
+    def inside(y: Vec) -> bool:
+        return all(dot(u, y) >= 0 for u in facets)
+
+    # 1. greedy (always succeeds when the basis contains a Hilbert basis)
+    x, chosen = target, {}
+    while any(x):
+        budget.tick(1, "decomposition into the Hilbert basis")
+        for i in rest:
+            y = tuple(a - b for a, b in zip(x, proj[i]))
+            if inside(y):
+                x = y
+                chosen[i] = chosen.get(i, 0) + 1
+                break
+        else:
+            break
+    if not any(x):
+        res = unit_part(chosen)
+        if res is not None:
+            return tuple(res.get(i, 0) for i in range(len(basis)))
+
+    # 2. exhaustive search over multisets (indices non-decreasing along ``rest``)
+    failed: set = set()
+    stack: dict[int, int] = {}
+
+    def search(x: Vec, start: int) -> dict | None:
+        budget.tick(1, "decomposition into the Hilbert basis")
+        if not any(x):
+            return unit_part(stack)
+        if units_span_all and (x, start) in failed:
+            return None
+        for pos in range(start, len(rest)):
+            i = rest[pos]
+            y = tuple(a - b for a, b in zip(x, proj[i]))
+            if inside(y):
+                stack[i] = stack.get(i, 0) + 1
+                res = search(y, pos)
+                stack[i] -= 1
+                if not stack[i]:
+                    del stack[i]
+                if res is not None:
+                    return res
+        failed.add((x, start))
+        return None
+
+    res = search(target, 0)
+    if res is None:
+        raise ValueError(f"{point} is not a non-negative integer combination of the basis")
+    return tuple(res.get(i, 0) for i in range(len(basis)))
