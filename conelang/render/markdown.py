@@ -63,12 +63,18 @@ def render_object(name: str, o: dict, level: int = 2) -> str:
         L.append(f"injective {yesno(o['injective'])} · surjective {yesno(o['surjective'])}")
     elif kind == "morphism":
         L.append(f"{h} morphism `{name}` = `{o['map']}`: `{o['source']}` → `{o['target']}`")
-        if "kinds" in o:
-            L.append("*" + ", ".join(o["kinds"]) + "*")
+        if not o.get("compatible", True):
+            L.append(f"**not compatible:** {o.get('violation', '')}")
+        if o.get("kinds"):
+            L.append("*" + ", ".join(k.replace("_", " ") for k in o["kinds"]) + "*"
+                     + (f" · degree {o['degree']}" if o.get("degree") is not None else ""))
         if "pullbacks" in o:
-            L.append("pullbacks: " + ", ".join(_code(f"w{j} ↦ {p}") for j, p in enumerate(o["pullbacks"], 1)))
+            L.append("")
+            L.append(f"pullbacks (w_j on U_{o['target']} in terms of z_i on U_{o['source']}): "
+                     + ", ".join(_code(f"w{j} ↦ {p}") for j, p in enumerate(o["pullbacks"], 1)))
         if "torus" in o:
-            L.append("torus: " + _code("(" + ", ".join(o["torus"]) + ")"))
+            L.append("")
+            L.append("torus: " + ", ".join(_code(f"t'{k} ↦ {m}") for k, m in enumerate(o["torus"], 1)))
     elif kind == "characters":
         L.append(f"{h} characters `{name}` of `{o['lattice']}`")
         L.append(f"{_code(vecs(o['characters']))}")

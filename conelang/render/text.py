@@ -47,14 +47,18 @@ def render_object(name: str, o: dict) -> list[str]:
         lines.append(f"  injective: {yesno(o['injective'])}, surjective: {yesno(o['surjective'])}")
     elif kind == "morphism":
         lines.append(f"morphism {name} = {o['map']}: {o['source']} -> {o['target']}")
-        for key in ("kinds",):
-            if key in o:
-                lines.append(f"  {', '.join(o[key])}")
+        if not o.get("compatible", True):
+            lines.append(f"  not compatible: {o.get('violation', '')}")
+        if o.get("kinds") is not None:
+            lines.append("  kinds: " + (", ".join(k.replace("_", " ") for k in o["kinds"]) or "none"))
+        if o.get("degree") is not None:
+            lines.append(f"  degree: {o['degree']}")
         if "pullbacks" in o:
+            lines.append(f"  pullbacks (w_j on U_{o['target']} in terms of z_i on U_{o['source']}):")
             for j, p in enumerate(o["pullbacks"], 1):
-                lines.append(f"  w{j} ↦ {p}")
+                lines.append(f"    w{j} ↦ {p}")
         if "torus" in o:
-            lines.append("  torus: (" + ", ".join(o["torus"]) + ")")
+            lines.append("  torus: " + ", ".join(f"t'{k} ↦ {m}" for k, m in enumerate(o["torus"], 1)))
     elif kind == "characters":
         lines.append(f"characters {name} of {o['lattice']}: {vecs(o['characters'])}")
         if "normal" in o:

@@ -468,70 +468,103 @@ class Analysis:
         raise EvalError("bad cone expression")
 
     def _map(self, st: A.MapStmt) -> V.MapValue:
+        """A lattice map.  ``images v1 … vn``: the images of the standard basis vectors of the
+        source's ambient Q^n (n = source rank, each vector in target coordinates); ``rows r1 … rm``:
+        the m rows of the matrix (each with n entries).  The map must send the source lattice into
+        the target lattice: checked on a basis of the source lattice."""
         source, target = self._space(st.source), self._space(st.target)
         sec = st.section
         m, n = target.rank, source.rank
-        kw = sec.keyword.text
-        if kw == "images":
-            if len(sec.vectors) != n:
-                self._fail(sec.span, "map-shape",
-                           f"a map from {source.label} (rank {n}) needs {n} images, one per basis vector; "
-                           f"{len(sec.vectors)} given")
-            for v in sec.vectors:
-                if len(v.entries) != m:
-                    self._fail(v.span, "map-shape",
-                               f"each image lies in {target.label} and needs {m} coordinates; this one has {len(v.entries)}")
+        images = sec.keyword.text == "images"
+        count, length = (n, m) if images else (m, n)
+        given = len(sec.vectors)
+        if given != count:
+            span = sec.span if given < count else (sec.vectors[count].span[0], sec.vectors[-1].span[1])
+            if images:
+                msg = (f"a map from {source.label} (rank {n}) needs {n} images, one per basis vector "
+                       f"e1..e{n}; {given} given")
+            else:
+                msg = f"a map to {target.label} (rank {m}) needs {m} rows, one per coordinate; {given} given"
+            self.sink.error(span, "map-shape", msg)
+        bad_length = False
+        for v in sec.vectors:
+            if len(v.entries) != length:
+                bad_length = True
+                if images:
+                    msg = (f"each image lies in {target.label} and needs {m} coordinates; "
+                           f"this one has {len(v.entries)}")
+                else:
+                    msg = (f"each row has one entry per coordinate of {source.label}, so {n}; "
+                           f"this one has {len(v.entries)}")
+                self.sink.error(v.span, "map-shape", msg)
+        if given != count or bad_length:
+            raise EvalError("bad map shape")
+        if images:
             rows = tuple(tuple(sec.vectors[j].entries[i] for j in range(n)) for i in range(m))
         else:
-            if len(sec.vectors) != m:
-                self._fail(sec.span, "map-shape",
-                           f"a map to {target.label} (rank {m}) needs {m} rows; {len(sec.vectors)} given")
-            for v in sec.vectors:
-                if len(v.entries) != n:
-                    self._fail(v.span, "map-shape",
-                               f"each row has one entry per coordinate of {source.label}, so {n}; this one has {len(v.entries)}")
             rows = tuple(v.entries for v in sec.vectors)
-        cols = []
+        cols, bad = [], False
         for j, b in enumerate(source.coordinate_basis):
             img = tuple(sum(Fraction(r[k]) * b[k] for k in range(n)) for r in rows)
             y = target.to_coords(img)
             if y is None:
-                self._fail(sec.span, "not-in-lattice",
-                           f"the map sends the lattice vector {fmt_vec(b)} of {source.label} to {fmt_vec(img)}, "
-                           f"which is not in {target.label}")
+                bad = True
+                standard_e = all(x == (1 if k == j else 0) for k, x in enumerate(b))
+                span = sec.vectors[j].span if images and standard_e else sec.span
+                self.sink.error(span, "not-in-lattice",
+                                f"the map sends the lattice vector {fmt_vec(b)} of {source.label} to "
+                                f"{fmt_vec(img)}, which is not in {target.label}"
+                                + self._lattice_hint(target, None))
             cols.append(y)
+        if bad:
+            raise EvalError("map leaves the target lattice")
         matrix = tuple(tuple(cols[j][i] for j in range(n)) for i in range(m))
         return V.MapValue(source, target, matrix, tuple(tuple(Fraction(x) for x in r) for r in rows))
 
+    def _expects_incompatible(self, name: str) -> bool:
+        """True iff the file states ``expect <name> not compatible`` (see the morphism section
+        of :mod:`conelang.semantics.properties`)."""
+        return any(ex.subject.text == name and ex.negated and ex.prop is not None
+                   and ex.prop.text == "compatible" and ex.value is None for ex in self.expects)
+
     def _morphism(self, st: A.MorphismDef) -> V.MorphismValue:
+        from .properties import violation_message
         m = self._need(st.map)
         src, tgt = self._need(st.source), self._need(st.target)
+        bad = False
         for cone_name, val, want, role in ((st.source, src, m.source, "source"), (st.target, tgt, m.target, "target")):
             if val.space != want:
-                self._fail(cone_name.span, "lattice-mismatch",
-                           f"'{st.map.text}' has {role} lattice {want.label}, but '{cone_name.text}' lives in {val.space.label}")
+                bad = True
+                self.sink.error(cone_name.span, "lattice-mismatch",
+                                f"'{st.map.text}' has {role} lattice {want.label}, but '{cone_name.text}' "
+                                f"lives in {val.space.label}")
+        if bad:
+            raise EvalError("lattice mismatch")
         for cone_name, val in ((st.source, src), (st.target, tgt)):
             line = gcone.a_line_in(val.cone)
             if line is not None:
-                self._fail(cone_name.span, "not-pointed",
-                           f"'{cone_name.text}' is not pointed (it contains the line through "
-                           f"{fmt_vec(val.space.from_coords(line))}), so it does not define an affine toric variety")
-        violation = gmaps.first_violation(m.matrix, src.cone, tgt.cone)
-        if violation is not None:
-            ray, image, normal, value, is_eq = violation
-            rv = fmt_vec(src.space.from_coords(ray))
-            iv = fmt_vec(tgt.space.from_coords(image))
-            nv = fmt_vec(tgt.space.dual().from_coords(normal))
-            rel = "≠ 0 for the equation" if is_eq else "< 0 for the facet"
-            self._fail(st.span, "incompatible-morphism",
-                       f"'{st.map.text}' does not send '{st.source.text}' into '{st.target.text}': it sends the ray {rv} "
-                       f"to {iv}, which has <{nv}, ·> = {value} {rel} {nv} of '{st.target.text}'",
+                bad = True
+                self.sink.error(cone_name.span, "not-pointed",
+                                f"'{cone_name.text}' is not pointed (it contains the line through "
+                                f"{fmt_vec(val.space.from_coords(line))}), so it does not define an affine toric variety")
+        if bad:
+            raise EvalError("not pointed")
+        value = V.MorphismValue(st.map.text, m, st.source.text, st.target.text, src, tgt)
+        message = violation_message(value)
+        if message is not None and not self._expects_incompatible(st.name.text):
+            self._fail(st.span, "incompatible-morphism", message,
                        related=(Related(self.defs[st.target.text].span, f"'{st.target.text}' is defined here"),
                                 Related(self.defs[st.source.text].span, f"'{st.source.text}' is defined here")))
-        return V.MorphismValue(st.map.text, m, st.source.text, st.target.text, src, tgt)
+        return value
 
     def _compose(self, st: A.MorphismCompose) -> V.MorphismValue:
+        from .properties import violation_message
         parts = [self._need(p) for p in st.parts]   # g ∘ f: the last one is applied first
+        for name, part in zip(st.parts, parts):
+            message = violation_message(part)
+            if message is not None:
+                self._fail(name.span, "incompatible-morphism",
+                           f"'{name.text}' is not a morphism, so it cannot be composed: {message}")
         result = parts[-1]
         for name, outer in zip(reversed(st.parts[:-1]), reversed(parts[:-1])):
             if outer.source != result.target:

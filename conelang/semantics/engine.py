@@ -90,10 +90,9 @@ class Engine:
         return self.cached("characters", characters.analyse_characters, chars)
 
     def resolve(self, cone):
-        try:
-            from ..geometry import fan
-        except ImportError:
-            raise NotAvailable("resolution of singularities is not available in this version") from None
+        """A smooth refinement of a pointed cone: a :class:`conelang.geometry.fan.Resolution`
+        (``.rays`` in lattice coordinates, ``.cones`` 0-based index tuples)."""
+        from ..geometry import fan
         self.require_pointed(cone)
         return self.cached("resolve", fan.resolve, cone)
 
@@ -134,5 +133,18 @@ class Engine:
                 "kinds": list(kinds.kinds()),
                 "degree": kinds.degree}
 
+    def fan_check(self, value):
+        """Validity of a fan (a :class:`conelang.geometry.fan.FanCheck`).  Fans made by
+        ``resolve`` are fans by construction: their cones are not intersected pairwise."""
+        from ..geometry import fan
+        return self.cached("fan_check", fan.check_fan, value.rays, value.cones, value.space.rank,
+                           value.source_cone is not None)
+
     def fan_facts(self, value):
-        raise NotAvailable("fan properties are not computed in this version")
+        """Invariants of a valid fan (a :class:`conelang.geometry.fan.FanInvariants`); raises
+        NotAvailable for a list of cones that is not a fan."""
+        from ..geometry import fan
+        check = self.fan_check(value)
+        if not check.valid:
+            raise NotAvailable("it is not a fan: " + check.errors[0].message())
+        return self.cached("fan_invariants", fan.fan_invariants, check)

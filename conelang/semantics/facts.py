@@ -150,8 +150,19 @@ def _surjective(value: V.MapValue) -> bool:
 
 
 def morphism_facts(analysis, value: V.MorphismValue, heavy: bool = True) -> dict:
+    """``compatible`` is computed (a morphism kept for ``expect … not compatible`` is not);
+    an incompatible one gets ``violation`` (the message) and nothing else.  ``lattice_matrix``
+    is the map in lattice coordinates (useful for a composite ``g ∘ f``, which has no map
+    definition of its own); the heavy part adds ``pullbacks``, ``pullback_exponents``,
+    ``torus``, ``kinds`` and ``degree`` (see :meth:`Engine.morphism`)."""
+    from .properties import violation_message
+    violation = violation_message(value)
     out = {"kind": "morphism", "map": value.map_name, "source": value.source_name,
-           "target": value.target_name, "compatible": True}
+           "target": value.target_name, "compatible": violation is None,
+           "lattice_matrix": [list(r) for r in value.map.matrix]}
+    if violation is not None:
+        out["violation"] = violation
+        return out
     if not heavy:
         return out
     errors: list[str] = []
