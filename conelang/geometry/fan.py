@@ -88,8 +88,10 @@ class FanProblem:
     the rays of the intersection of two overlapping cones.
 
     >>> p = check_fan([(1, 0), (0, 1), (1, 1)], [(0, 1), (2,)], 2).problems[0]
-    >>> p.code, p.cone, p.other, p.message()
-    ('fan-overlap', 1, 0, 'cones [3] and [1 2] do not meet in a common face: their intersection cone((1, 1)) is not a face of [1 2]; the vector (1, 1) lies in both, in the relative interior of the face [3] of [3] but of the face [1 2] of [1 2]')
+    >>> p.code, p.cone, p.other
+    ('fan-overlap', 1, 0)
+    >>> print(p.message())
+    cones [3] and [1 2] do not meet in a common face: their intersection cone((1, 1)) is not a face of [1 2]; e.g. the vector (1, 1) lies in both cones but in no common face (it is in the relative interior of [3] and of [1 2])
     """
 
     code: str
@@ -130,11 +132,16 @@ class FanProblem:
                     f"faces of listed cones are in the fan anyway")
         if self.code == "fan-overlap":
             meet = "cone(" + ", ".join(fmt(r) for r in self.meet) + ")" if self.meet else "{0}"
+
+            def inside(face, ci):
+                if set(face) == set(c[ci]):
+                    return name(ci)
+                return f"its face {_idx(face)} of {name(ci)}"
+
             return (f"cones {name(self.cone)} and {name(self.other)} do not meet in a common face: their "
-                    f"intersection {meet} is not a face of {name(self.not_face_of)}; the vector "
-                    f"{fmt(self.vector)} lies in both, in the relative interior of the face "
-                    f"{_idx(self.face)} of {name(self.cone)} but of the face {_idx(self.other_face)} "
-                    f"of {name(self.other)}")
+                    f"intersection {meet} is not a face of {name(self.not_face_of)}; e.g. the vector "
+                    f"{fmt(self.vector)} lies in both cones but in no common face (it is in the relative "
+                    f"interior of {inside(self.face, self.cone)} and of {inside(self.other_face, self.other)})")
         return self.code
 
 
@@ -171,7 +178,7 @@ def _carrier(c: Cone, v: Sequence[int], index_of: dict) -> tuple[int, ...]:
 
 
 def check_fan(rays: Sequence[Sequence[int]], cones: Sequence[Sequence[int]], d: int,
-              budget: Budget | None = None, trusted: bool = False) -> FanCheck:
+              trusted: bool = False, budget: Budget | None = None) -> FanCheck:
     """Decide exactly whether ``cones`` (index lists into ``rays``) form a fan in Q^d.
 
     Rays are replaced by their primitive vectors; repeated indices in a cone are ignored.
@@ -205,8 +212,9 @@ def check_fan(rays: Sequence[Sequence[int]], cones: Sequence[Sequence[int]], d: 
             first[r] = i
     listed = [tuple(dict.fromkeys(c)) for c in cones]
     used = {i for c in listed for i in c}
+    dups = {p.ray for p in problems}
     for i in range(len(rays)):
-        if i not in used:
+        if i not in used and i not in dups:
             problems.append(FanProblem("fan-unused-ray", ray=i))
             listed.append((i,))
     listed_t = tuple(listed)

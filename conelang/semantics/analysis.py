@@ -55,6 +55,11 @@ def fmt_vec(v) -> str:
     return "(" + ", ".join(fmt_number(x) for x in v) + ")"
 
 
+def fan_cone_label(indices) -> str:
+    """A cone of a fan as the user writes it: 0-based indices shown 1-based, ``[1 2]``."""
+    return "[" + " ".join(str(i + 1) for i in indices) + "]"
+
+
 class Analysis:
     def __init__(self, text: str, engine: Engine | None = None):
         self.text = text
@@ -597,9 +602,50 @@ class Analysis:
             for i, sp in il.indices:
                 if not 1 <= i <= len(coords):
                     self._fail(sp, "bad-index", f"ray index {i} is out of range: the fan has {len(coords)} rays (numbered from 1)")
+                if i - 1 in idx:
+                    self.sink.warning(sp, "fan-duplicate-index", f"ray {i} is already listed in this cone",
+                                      unnecessary=True, fixes=(Fix(f"remove the repeated index {i}", sp, ""),))
+                    continue
                 idx.append(i - 1)
             cones.append(tuple(idx))
-        return V.FanValue(space, tuple(coords), tuple(cones))
+        value = V.FanValue(space, tuple(coords), tuple(cones))
+        self._fan_diagnostics(st, value, [node for node, _ in rays])
+        return value
+
+    def _fan_diagnostics(self, st: A.FanDef, value: V.FanValue, ray_nodes) -> None:
+        """Report the problems found by :func:`conelang.geometry.fan.check_fan` at the cone
+        (or ray) concerned, with the other cone as related information.  The value is kept:
+        ``expect F not valid`` and the facts (``valid: false``) still work."""
+        check = self.engine.fan_check(value)
+        space = value.space
+        fmt = lambda x: fmt_vec(space.from_coords(x))
+        listed = len(st.cones)
+
+        def where(ci):
+            """Span of cone ``ci`` (a listed index list, or the ray of an unused-ray cone)."""
+            if ci < listed:
+                return st.cones[ci].span
+            return ray_nodes[check.cones[ci][0]].span
+
+        for p in check.problems:
+            msg = p.message(fmt)
+            related = ()
+            if p.code in ("fan-duplicate-ray", "fan-unused-ray"):
+                span = ray_nodes[p.ray].span
+                if p.other_ray is not None:
+                    related = (Related(ray_nodes[p.other_ray].span, f"ray {p.other_ray + 1} is listed here"),)
+            elif p.code == "fan-not-ray":
+                span = next((sp for i, sp in st.cones[p.cone].indices if i - 1 == p.ray), where(p.cone)) \
+                    if p.cone < listed else where(p.cone)
+            else:
+                span = where(p.cone)
+                if p.other is not None:
+                    related = (Related(where(p.other), f"the other cone, {fan_cone_label(check.cones[p.other])}"),)
+            if p.is_error:
+                self.sink.error(span, p.code, msg, related=related)
+            else:
+                self.sink.warning(span, p.code, msg, related=related,
+                                  unnecessary=p.code == "fan-redundant-cone")
 
     def _fan_resolve(self, st: A.FanResolve) -> V.FanValue:
         c = self._need(st.cone)
@@ -608,8 +654,8 @@ class Analysis:
             self._fail(st.cone.span, "not-pointed",
                        f"'{st.cone.text}' is not pointed (it contains the line through "
                        f"{fmt_vec(c.space.from_coords(line))}); only pointed cones can be resolved")
-        fan = self.engine.resolve(c.cone)
-        return V.FanValue(c.space, fan[0], fan[1], st.cone.text)
+        res = self.engine.resolve(c.cone)
+        return V.FanValue(c.space, res.rays, res.cones, st.cone.text)
 
     # ------------------------------------------------------------------ expectations
     def check_expectations(self) -> None:

@@ -99,6 +99,8 @@ def cone_facts(analysis, value: V.ConeValue, heavy: bool = True) -> dict:
         out["hilbert_basis"] = [_user(s, h) for h in hb]
     if c.pointed:
         out["variety"] = variety_facts(analysis, value, errors)
+    if c.ambient_dim == 2:
+        out.update(window_facts(value, out))
     if errors:
         out["errors"] = errors
     return out
@@ -200,17 +202,115 @@ def characters_facts(analysis, value: V.CharactersValue, heavy: bool = True) -> 
 
 
 def fan_facts(analysis, value: V.FanValue, heavy: bool = True) -> dict:
-    out = {"kind": "fan", "lattice": value.space.label,
-           "rays": [_user(value.space, r) for r in value.rays],
+    """Facts of a fan: validity (with the problems of an invalid one), completeness,
+    smoothness, orbits, Picard and class groups, self-intersections (smooth surfaces), the
+    data of a resolution (``resolves``), and the affine charts of the maximal cones."""
+    from .analysis import fmt_vec
+    s = value.space
+    out = {"kind": "fan", "lattice": s.label,
+           "rays": [_user(s, r) for r in value.rays],
            "cones": [[i + 1 for i in c] for c in value.cones]}
     if value.source_cone:
         out["resolves"] = value.source_cone
-    if not heavy:
-        return out
     errors: list[str] = []
-    fx = _guard(errors, "fan", lambda: analysis.engine.fan_facts(value))
-    if fx is not None:
-        out.update(fx)
+    eng = analysis.engine
+    check = _guard(errors, "fan", lambda: eng.fan_check(value))
+    if check is not None:
+        out["valid"] = check.valid
+        if not check.valid:
+            fmt = lambda x: fmt_vec(s.from_coords(x))
+            out["problems"] = [{"code": p.code, "message": p.message(fmt)} for p in check.errors]
+    if heavy and check is not None and check.valid:
+        inv = _guard(errors, "fan invariants", lambda: eng.fan_facts(value))
+        if inv is not None:
+            out.update({
+                "complete": inv.complete, "smooth": inv.smooth, "simplicial": inv.simplicial,
+                "orbits": list(inv.orbits),
+                "picard_group": group_string(inv.picard_group),
+                "class_group": group_string(inv.class_group),
+                "picard_index": inv.picard_index,
+                "maximal_cones": [[i + 1 for i in c] for c in inv.maximal_cones],
+            })
+            if inv.self_intersections is not None:
+                out["self_intersections"] = list(inv.self_intersections)
+        if value.source_cone:
+            res = _guard(errors, "resolution", lambda: _resolution_of(analysis, value))
+            if res is not None:
+                out["resolution"] = res.method
+                if res.continued_fraction is not None:
+                    out["continued_fraction"] = list(res.continued_fraction)
+                    out["cyclic_quotient"] = list(res.cyclic_quotient)
+                if res.crepant_rays is not None:
+                    out["crepant_rays"] = [_user(s, r) for r in res.crepant_rays]
+                    out["crepant_cones"] = [[i + 1 for i in c] for c in res.crepant_cones]
+                    out["crepant_smooth"] = res.crepant_smooth
+        out["charts"] = _charts(analysis, value, check, errors)
     if errors:
         out["errors"] = errors
     return out
+
+
+MAX_CHARTS = 64
+
+
+def _resolution_of(analysis, value: V.FanValue):
+    cone = analysis.value(value.source_cone)
+    if cone is None:
+        raise NotAvailable(f"'{value.source_cone}' has errors")
+    return analysis.engine.resolve(cone.cone)
+
+
+def _charts(analysis, value: V.FanValue, check, errors: list) -> list:
+    """The affine chart U_σ of each maximal cone σ: coordinates z_i = χ^{m_i} and equations."""
+    charts = []
+    dual_space = value.space.dual()
+    for ci in check.maximal[:MAX_CHARTS]:
+        cone = check.geometry[ci]
+        label = "[" + " ".join(str(i + 1) for i in check.cones[ci]) + "]"
+        var = _guard(errors, f"chart of the cone {label}", lambda: analysis.engine.variety(cone))
+        if var is None:
+            continue
+        charts.append({"cone": [i + 1 for i in check.cones[ci]],
+                       "generators": [_user(dual_space, g) for g in var.generators],
+                       "equations": list(var.equations)})
+    if len(check.maximal) > MAX_CHARTS:
+        errors.append(f"charts: only the first {MAX_CHARTS} of {len(check.maximal)} maximal cones are shown")
+    return charts
+
+
+WINDOW_MIN, WINDOW_MAX = 3, 8
+
+
+def _window_points(space: V.Space, cone, radius: int) -> list:
+    """The lattice points of ``cone`` (lattice coordinates, a cone in ``space``) whose user
+    coordinates lie in ``[-radius, radius]^2``, in user coordinates, sorted."""
+    from ..geometry import cone as gcone
+    basis = space.coordinate_basis                       # user coordinates of the lattice basis
+    inv = linalg.inverse_rational(basis)                 # x = v · inv
+    bounds = [sum(abs(inv[i][j]) for i in range(2)) * radius for j in range(2)]
+    bounds = [int(b) + 1 for b in bounds]
+    pts = []
+    for x0 in range(-bounds[0], bounds[0] + 1):
+        for x1 in range(-bounds[1], bounds[1] + 1):
+            v = space.from_coords((x0, x1))
+            if all(abs(c) <= radius for c in v) and gcone.contains(cone, (x0, x1)):
+                pts.append(tuple(Fraction(c) for c in v))
+    return [jvec(p) for p in sorted(pts)]
+
+
+def window_facts(value: V.ConeValue, facts: dict) -> dict:
+    """For a cone in a lattice of rank 2 (the pictures): the lattice points of σ and of σ^∨
+    in the window ``[-R, R]^2`` of user coordinates, R just large enough for the rays and the
+    Hilbert bases (between 3 and 8)."""
+    vecs = list(facts.get("rays", [])) + list(facts.get("hilbert_basis", []))
+    var = facts.get("variety") or {}
+    vecs += list(var.get("generators", [])) + list(facts.get("facets", []))
+    size = 0
+    for v in vecs:
+        for c in v:
+            size = max(size, abs(Fraction(c)))
+    radius = max(WINDOW_MIN, min(WINDOW_MAX, int(size) + (0 if Fraction(size).denominator == 1 else 1)))
+    from ..geometry import cone as gcone
+    return {"lattice_window": radius,
+            "lattice_points": _window_points(value.space, value.cone, radius),
+            "dual_lattice_points": _window_points(value.space.dual(), gcone.dual(value.cone), radius)}
