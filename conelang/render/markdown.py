@@ -86,14 +86,53 @@ def render_object(name: str, o: dict, level: int = 2) -> str:
             if o["equations"]:
                 L.append("\nequations of the orbit closure:\n```\n" + "\n".join(o["equations"]) + "\n```")
     elif kind == "fan":
-        L.append(f"{h} fan `{name}` in `{o['lattice']}`")
-        L.append(f"rays {_code(vecs(o['rays']))}; cones " + " ".join(_code(str(c)) for c in o["cones"]))
-        flags = [f"{k} {yesno(o[k])}" for k in ("valid", "complete", "smooth", "simplicial") if k in o]
-        if flags:
-            L.append(" · ".join(flags))
-        for key in ("orbits", "picard_group", "class_group", "self_intersections"):
-            if key in o:
-                L.append(f"{key.replace('_', ' ')}: {_code(str(o[key]))}")
+        L.extend(fan_markdown(name, o, h))
     for err in o.get("errors", []):
         L.append(f"\n*not computed:* {err}")
     return "\n".join(L)
+
+
+def _mcones(cs) -> str:
+    return " ".join(_code("[" + " ".join(map(str, c)) + "]") for c in cs) or "none"
+
+
+def fan_markdown(name: str, o: dict, h: str) -> list[str]:
+    """Markdown of a fan's facts (validity, invariants, resolution data, charts)."""
+    L = [f"{h} fan `{name}` in `{o['lattice']}`"]
+    if "resolves" in o:
+        L.append(f"*a smooth refinement of `{o['resolves']}`" + (f" ({o['resolution']})*" if "resolution" in o else "*"))
+    L.append("")
+    L.append("| | |\n|---|---|")
+    L.append("| rays | " + (" ".join(f"{i}: {_code(vec(r))}" for i, r in enumerate(o["rays"], 1)) or "none") + " |")
+    L.append(f"| cones | {_mcones(o['cones'])} |")
+    if o.get("maximal_cones") is not None and o["maximal_cones"] != o["cones"]:
+        L.append(f"| maximal cones | {_mcones(o['maximal_cones'])} |")
+    if "orbits" in o:
+        L.append("| torus orbits by dimension | " + ", ".join(f"{k}: {n}" for k, n in enumerate(o["orbits"])) + " |")
+    if "picard_group" in o:
+        L.append(f"| Picard group | {_code(o['picard_group'])} |")
+        L.append(f"| class group | {_code(o['class_group'])} |")
+        if o.get("picard_index") is not None:
+            L.append(f"| [Cl : Pic] | {o['picard_index']} |")
+    si = o.get("self_intersections")
+    if si and any(x is not None for x in si):
+        L.append("| self-intersections | " + ", ".join(f"D{i}² = {x}" for i, x in enumerate(si, 1) if x is not None) + " |")
+    if o.get("continued_fraction"):
+        n, q = o["cyclic_quotient"]
+        L.append(f"| singularity | 1/{n}(1, {q}); {n}/{q} = [{', '.join(map(str, o['continued_fraction']))}] |")
+    if "crepant_rays" in o:
+        L.append(f"| crepant partial resolution | rays {_code(vecs(o['crepant_rays']))}, smooth {yesno(o['crepant_smooth'])} |")
+    L.append("")
+    flags = [f"{k} {yesno(o[k])}" for k in ("valid", "complete", "smooth", "simplicial") if k in o]
+    if flags:
+        L.append(" · ".join(flags))
+    for p in o.get("problems", []):
+        L.append(f"\n**not a fan:** {p['message']} (`{p['code']}`)")
+    charts = o.get("charts") or []
+    if charts:
+        L.append("\naffine charts:")
+        for ch in charts:
+            gens = ", ".join(f"z{i} = χ^{vec(g)}" for i, g in enumerate(ch["generators"], 1))
+            eqs = ", ".join(_code(e) for e in ch["equations"]) or "none"
+            L.append(f"- U_[{' '.join(map(str, ch['cone']))}]: {gens}; equations: {eqs}")
+    return L

@@ -70,15 +70,53 @@ def render_object(name: str, o: dict) -> list[str]:
                 lines.append(f"  holes: {vecs(o['holes'])}")
             lines.append("  equations: " + (", ".join(o["equations"]) or "none"))
     elif kind == "fan":
-        lines.append(f"fan {name} in {o['lattice']}: {len(o['rays'])} rays, {len(o['cones'])} maximal cones")
-        lines.append(f"  rays: {vecs(o['rays'])}")
-        lines.append("  cones: " + " ".join("[" + " ".join(map(str, c)) + "]" for c in o["cones"]))
-        for key in ("valid", "complete", "smooth", "simplicial"):
-            if key in o:
-                lines.append(f"  {key}: {yesno(o[key])}")
-        for key in ("orbits", "picard_group", "class_group", "self_intersections"):
-            if key in o:
-                lines.append(f"  {key.replace('_', ' ')}: {o[key]}")
+        lines.extend(fan_lines(name, o))
     for err in o.get("errors", []):
         lines.append(f"  (not computed: {err})")
+    return lines
+
+
+def _cones(cs) -> str:
+    return " ".join("[" + " ".join(map(str, c)) + "]" for c in cs) or "none"
+
+
+def fan_lines(name: str, o: dict) -> list[str]:
+    """The text of a fan's facts (validity, invariants, resolution data, charts)."""
+    head = f"fan {name} in {o['lattice']}: {len(o['rays'])} rays, {len(o['cones'])} cones listed"
+    if "resolves" in o:
+        head += f"; a resolution of '{o['resolves']}'" + (f" ({o['resolution']})" if "resolution" in o else "")
+    lines = [head]
+    lines.append("  rays: " + (" ".join(f"{i}:{vec(r)}" for i, r in enumerate(o["rays"], 1)) or "none"))
+    lines.append(f"  cones: {_cones(o['cones'])}")
+    if o.get("maximal_cones") is not None and o["maximal_cones"] != o["cones"]:
+        lines.append(f"  maximal cones: {_cones(o['maximal_cones'])}")
+    flags = [f"{k}: {yesno(o[k])}" for k in ("valid", "complete", "smooth", "simplicial") if k in o]
+    if flags:
+        lines.append("  " + ", ".join(flags))
+    for p in o.get("problems", []):
+        lines.append(f"  not a fan: {p['message']} [{p['code']}]")
+    if "orbits" in o:
+        lines.append("  torus orbits of dimension " + ", ".join(f"{k}: {n}" for k, n in enumerate(o["orbits"])))
+    if "picard_group" in o:
+        extra = f"; [Cl : Pic] = {o['picard_index']}" if o.get("picard_index") is not None else ""
+        lines.append(f"  Picard group: {o['picard_group']}, class group: {o['class_group']}{extra}")
+    si = o.get("self_intersections")
+    if si and any(x is not None for x in si):
+        lines.append("  self-intersections: " + ", ".join(f"D{i}^2 = {x}" for i, x in enumerate(si, 1) if x is not None))
+    if "continued_fraction" in o:
+        n, q = o["cyclic_quotient"]
+        cf = o["continued_fraction"]
+        lines.append(f"  cyclic quotient singularity 1/{n}(1, {q}); Hirzebruch–Jung continued fraction "
+                     f"{n}/{q} = [{', '.join(map(str, cf))}]" if cf else f"  the cone is smooth (1/{n}(1, {q}))")
+    if "crepant_rays" in o:
+        lines.append(f"  crepant partial resolution (lattice points at height one): rays {vecs(o['crepant_rays'])}; "
+                     f"smooth: {yesno(o['crepant_smooth'])}")
+    charts = o.get("charts") or []
+    if charts:
+        lines.append("  affine charts:")
+        for ch in charts:
+            label = "U_[" + " ".join(map(str, ch["cone"])) + "]"
+            gens = ", ".join(f"z{i} = χ^{vec(g)}" for i, g in enumerate(ch["generators"], 1))
+            eqs = ", ".join(ch["equations"]) or "none"
+            lines.append(f"    {label}: {gens}; equations: {eqs}")
     return lines

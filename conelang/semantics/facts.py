@@ -229,7 +229,7 @@ def fan_facts(analysis, value: V.FanValue, heavy: bool = True) -> dict:
                 "picard_group": group_string(inv.picard_group),
                 "class_group": group_string(inv.class_group),
                 "picard_index": inv.picard_index,
-                "maximal_cones": [[i + 1 for i in c] for c in inv.maximal_cones],
+                "maximal_cones": [[i + 1 for i in check.cones[ci]] for ci in check.maximal],
             })
             if inv.self_intersections is not None:
                 out["self_intersections"] = list(inv.self_intersections)
