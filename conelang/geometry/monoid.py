@@ -329,7 +329,9 @@ def hilbert_basis(c: Cone, budget: Budget | None = None) -> tuple[Vec, ...]:
 def hilbert_basis_bruteforce(c: Cone, bound: int) -> tuple[Vec, ...]:
     """Reference implementation for tests: the irreducible elements of ``c ∩ Z^d`` among the
     points of the box ``[-bound, bound]^d``, assuming the cone is pointed and its Hilbert
-    basis lies in the box (then the answer is exact), in canonical order.
+    basis lies in the box (then the answer is exact), in canonical order.  A point is
+    irreducible iff it is not ``q + (p - q)`` with ``q`` an irreducible point of smaller
+    degree (for the grading by the sum of the facet normals) and ``p - q`` in the cone.
 
     >>> hilbert_basis_bruteforce(cone_from_rays([(1, 0), (1, 2)], 2), 2)
     ((1, 2), (1, 1), (1, 0))
@@ -337,17 +339,17 @@ def hilbert_basis_bruteforce(c: Cone, bound: int) -> tuple[Vec, ...]:
     if not c.pointed:
         raise ValueError("brute force only for pointed cones")
     d = c.ambient_dim
+    w = [0] * d
+    for u in c.facets:
+        w = [a + b for a, b in zip(w, u)]
+    if c.dim == 1:
+        w = list(c.rays[0])
     pts = [p for p in product(range(-bound, bound + 1), repeat=d) if any(p) and contains(c, p)]
-    ptset = set(pts)
-    out = []
+    pts.sort(key=lambda p: dot(w, p))
+    out: list[Vec] = []
     for p in pts:
-        reducible = False
-        for q in pts:
-            r = tuple(a - b for a, b in zip(p, q))
-            if any(r) and r in ptset:
-                reducible = True
-                break
-        if not reducible:
+        if not any(dot(w, q) < dot(w, p) and contains(c, tuple(a - b for a, b in zip(p, q)))
+                   for q in out):
             out.append(p)
     return canonical_order(out)
 
