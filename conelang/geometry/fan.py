@@ -177,6 +177,26 @@ def _carrier(c: Cone, v: Sequence[int], index_of: dict) -> tuple[int, ...]:
     return tuple(sorted(index_of[r] for r in c.rays if all(dot(u, r) == 0 for u in tight)))
 
 
+def _separated(a: Cone, b: Cone) -> bool:
+    """A quick sufficient test that two pointed cones meet in a common face: a functional
+    ``u >= 0`` on ``a``, ``<= 0`` on ``b``, vanishing on exactly the common rays ``S`` of both.
+    Then ``a ∩ b ⊆ a ∩ u^⊥ = cone(S) = b ∩ u^⊥``, a common face (the separation lemma, CLS
+    Lemma 1.2.13 (from memory)).  The candidates are the normals cutting out the smallest
+    face containing ``S`` in ``a`` (and, negated, in ``b``)."""
+    common = set(a.rays) & set(b.rays)
+    for x, y, sign in ((a, b, 1), (b, a, -1)):
+        u = [0] * x.ambient_dim
+        for n in x.facets:
+            if all(dot(n, r) == 0 for r in common):
+                u = [p + q for p, q in zip(u, n)]
+        if {r for r in x.rays if dot(u, r) == 0} != common:
+            continue
+        vals = [dot(u, r) for r in y.rays]
+        if all(v <= 0 for v in vals) and {r for r, v in zip(y.rays, vals) if v == 0} == common:
+            return True
+    return False
+
+
 def check_fan(rays: Sequence[Sequence[int]], cones: Sequence[Sequence[int]], d: int,
               trusted: bool = False, budget: Budget | None = None) -> FanCheck:
     """Decide exactly whether ``cones`` (index lists into ``rays``) form a fan in Q^d.
@@ -260,6 +280,8 @@ def check_fan(rays: Sequence[Sequence[int]], cones: Sequence[Sequence[int]], d: 
                 budget.tick(len(listed_t[i]) * len(listed_t[j]) * d, "fan check",
                             f"{len(cand)} cones to intersect pairwise")
                 gi, gj = geo[i], geo[j]
+                if _separated(gi, gj):
+                    continue
                 meet = intersection(gi, gj, budget)
                 fi, fj = is_face(gi, meet), is_face(gj, meet)
                 if fi and fj:
@@ -333,8 +355,14 @@ def cartier_basis(rays: Sequence[Vec], maximal: Sequence[Sequence[int]], d: int,
                   budget: Budget | None = None) -> tuple[Vec, ...]:
     """Hermite basis of the lattice ``CDiv_T ⊆ Z^{Σ(1)}`` of T-Cartier divisors
     ``Σ a_ρ D_ρ``: those for which every maximal cone σ has ``m_σ ∈ M`` with
-    ``<m_σ, v_ρ> = a_ρ`` for all rays ρ of σ.  It is the projection to the ``a``-coordinates
-    of the kernel lattice of these gluing conditions (unknowns ``a`` and all ``m_σ``).
+    ``<m_σ, v_ρ> = a_ρ`` for all rays ρ of σ.
+
+    Method: the gluing condition on σ says that ``a|σ`` lies in the lattice ``L_σ`` spanned by
+    the columns of the matrix ``V_σ`` of the rays of σ.  With the Smith form
+    ``U V_σ W = diag(d_1, ..., d_t, 0, ...)`` this is ``(U a|σ)_i ≡ 0 mod d_i`` for ``i <= t`` and
+    ``(U a|σ)_i = 0`` beyond (trivial when ``d_i = 1``: smooth cones impose nothing).  The
+    lattice of solutions of these congruences is the projection of the kernel lattice of
+    ``[A | diag(d)]``.
 
     For P(1,1,2) (rays (-1,-2), (1,0), (0,1)) a Weil divisor is Cartier iff it is so at the
     singular point, the cone of (-1,-2) and (1,0):
@@ -344,34 +372,44 @@ def cartier_basis(rays: Sequence[Vec], maximal: Sequence[Sequence[int]], d: int,
     """
     budget = ensure(budget)
     r = len(rays)
-    s = len(maximal)
-    n = r + d * s
-    eqs = []
-    for t, cone in enumerate(maximal):
-        for rho in cone:
-            row = [0] * n
-            row[rho] = 1
-            for j in range(d):
-                row[r + d * t + j] = -rays[rho][j]
-            eqs.append(tuple(row))
-    budget.tick(len(eqs) * n * max(1, n), "Picard group", f"{len(eqs)} gluing conditions")
-    if not eqs:
+    conds: list[tuple[list[int], int]] = []
+    for cone in maximal:
+        if not cone:
+            continue
+        V = [rays[rho] for rho in cone]
+        budget.tick(len(cone) * d * d + 1, "Picard group")
+        D, U, _ = linalg.smith(V, d)
+        for i in range(len(cone)):
+            mod = D[i][i] if i < d else 0
+            if mod == 1:
+                continue
+            row = [0] * r
+            for j, rho in enumerate(cone):
+                row[rho] += U[i][j]
+            if any(row):
+                conds.append((row, mod))
+    if not conds:
         return linalg.identity(r)
-    K = linalg.kernel_basis(eqs, n)
+    c = len(conds)
+    budget.tick(c * (r + c) * (r + c), "Picard group", f"{c} gluing conditions")
+    A = [tuple(row + [mod if k == i else 0 for k in range(c)]) for i, (row, mod) in enumerate(conds)]
+    K = linalg.kernel_basis(A, r + c)
     proj = [k[:r] for k in K if any(k[:r])]
     return linalg.hnf(proj, r) if proj else ()
 
 
 def picard_group(rays: Sequence[Vec], maximal: Sequence[Sequence[int]], d: int,
-                 budget: Budget | None = None) -> tuple[int, tuple[int, ...]]:
-    """``Pic(X_Σ) = CDiv_T(X_Σ) / M`` as ``(free rank, invariant factors)``.
+                 budget: Budget | None = None, basis: Sequence[Vec] | None = None
+                 ) -> tuple[int, tuple[int, ...]]:
+    """``Pic(X_Σ) = CDiv_T(X_Σ) / M`` as ``(free rank, invariant factors)`` (``basis``: the
+    :func:`cartier_basis`, when already known).
 
     >>> picard_group([(-1, -2), (1, 0), (0, 1)], [(0, 1), (1, 2), (2, 0)], 2)   # P(1,1,2)
     (1, ())
     >>> picard_group([(1, 0), (1, 2)], [(0, 1)], 2)                            # affine: Pic = 0
     (0, ())
     """
-    B = cartier_basis(rays, maximal, d, budget)
+    B = basis if basis is not None else cartier_basis(rays, maximal, d, budget)
     k = len(B)
     if k == 0:
         return (0, ())
@@ -486,7 +524,7 @@ def fan_invariants(f: FanCheck, budget: Budget | None = None) -> FanInvariants:
     smooth = simplicial and all(is_unimodular(g.rays) for g in geos)
     cl = class_group(f.rays, d)
     B = cartier_basis(f.rays, maximal, d, budget)
-    pic = picard_group(f.rays, maximal, d, budget)
+    pic = picard_group(f.rays, maximal, d, budget, basis=B)
     r = len(f.rays)
     pidx = abs(linalg.det(B)) if len(B) == r else None
     si = None
