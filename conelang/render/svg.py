@@ -1,0 +1,521 @@
+"""Pictures of cones and fans: ``conelang show FILE --format svg``.
+
+:func:`render` turns the facts document (see :mod:`conelang.semantics.facts`) into one SVG
+document.  Each drawable object gets a row of panels; rows are stacked:
+
+* a cone in a lattice of rank 2: the cone (shaded, clipped to the window ``[-R, R]^2`` of
+  user coordinates), its rays, its lattice points in the window and its Hilbert basis
+  (ringed); a second panel shows the dual cone with its lattice points and the Hilbert basis
+  of the dual monoid (the coordinates z_i of U_σ);
+* a cone in a lattice of rank 3: the cross-section ``σ ∩ {<w, x> = 1}`` for ``w`` = the sum
+  of the inner facet normals (an interior vector of the dual, positive on σ ∖ 0), projected
+  exactly to an orthogonal rational basis of ``w^⊥``, with the rays as vertices and the
+  Hilbert basis elements ``h`` drawn at ``h / <w, h>``; the dual cone likewise;
+* a fan in rank 2: its cones (alternately shaded), rays numbered as in the file; a fan in
+  rank 3 whose rays lie in an open half-space (e.g. a resolution of a cone): the
+  cross-section of all its cones.
+
+The geometry is computed exactly (Fractions); only the final SVG coordinates are decimals.
+Lattice points and Hilbert basis elements carry their exact user coordinates in a
+``data-point`` attribute (``"1,-2"``, ``"1/3,2/3"``), so the picture can be checked.
+
+>>> doc = {"file": "x.cone", "diagnostics": [], "objects": {"c": {
+...     "kind": "cone", "lattice": "N", "ambient_dim": 2, "dim": 2, "pointed": True,
+...     "rays": [[0, 1], [2, -1]], "lineality": [], "facets": [[1, 0], [1, 2]],
+...     "linear_equations": [], "hilbert_basis": [[2, -1], [1, 0], [0, 1]],
+...     "lattice_window": 3, "lattice_points": [[0, 0], [0, 1], [1, 0]],
+...     "dual_lattice_points": [[0, 0], [1, 0]]}}}
+>>> out = render(doc)
+>>> out.startswith("<svg"), out.count('class="lattice-point"')   # 3 in σ, 2 in σ^∨
+(True, 5)
+"""
+from __future__ import annotations
+
+from fractions import Fraction
+from math import sqrt
+from xml.sax.saxutils import escape, quoteattr
+
+PANEL = 300          # drawing area of a panel (square), in SVG units
+TITLE = 34           # room for the title above a panel
+GAP = 16
+MARGIN = 18
+
+FILLS = ("#cfe0f5", "#f6d8b8", "#d4ecd0", "#eed3ea", "#f3efc0", "#d2eeee")
+
+STYLE = """
+.title { font-weight: bold; font-size: 13px; }
+.subtitle { font-size: 11px; fill: #444; }
+.frame { fill: white; stroke: #bbb; }
+.axis { stroke: #ccc; stroke-width: 1; }
+.tick { stroke: #ddd; stroke-width: 1; }
+.region { fill: #cfe0f5; fill-opacity: 0.8; stroke: none; }
+.cone-edge { stroke: #2b5797; stroke-width: 2; fill: none; }
+.ray { stroke: #2b5797; stroke-width: 2; }
+.ray-label { font-size: 10px; fill: #2b5797; }
+.lattice-point { fill: #333; }
+.hilbert-basis { fill: none; stroke: #c0392b; stroke-width: 2; }
+.ray-generator { fill: #2b5797; }
+.section { stroke: #2b5797; stroke-width: 1.5; fill-opacity: 0.85; }
+.note { font-size: 11px; fill: #666; }
+"""
+
+
+# ---------------------------------------------------------------------------------------------
+# small exact helpers
+
+
+def _q(x) -> Fraction:
+    return Fraction(x)
+
+
+def _qv(v) -> tuple[Fraction, ...]:
+    return tuple(Fraction(x) for x in v)
+
+
+def _dot(u, v):
+    return sum(a * b for a, b in zip(u, v))
+
+
+def _exact(v) -> str:
+    """The exact coordinates as written in the facts: ``"1,-2"``, ``"1/3,2/3"``."""
+    return ",".join(str(Fraction(x)) for x in v)
+
+
+def _f(x: float) -> str:
+    return f"{x:.2f}".rstrip("0").rstrip(".") if abs(x) > 1e-9 else "0"
+
+
+def _vec_text(v) -> str:
+    return "(" + ", ".join(str(Fraction(x)) for x in v) + ")"
+
+
+def _clip(poly, a, b, c):
+    """Sutherland–Hodgman: the part of a convex polygon (float points) with a·x + b·y >= c."""
+    out = []
+    n = len(poly)
+    for i in range(n):
+        p, q = poly[i], poly[(i + 1) % n]
+        fp = a * p[0] + b * p[1] - c
+        fq = a * q[0] + b * q[1] - c
+        if fp >= 0:
+            out.append(p)
+        if (fp >= 0) != (fq >= 0):
+            t = fp / (fp - fq)
+            out.append((p[0] + t * (q[0] - p[0]), p[1] + t * (q[1] - p[1])))
+    return out
+
+
+# ---------------------------------------------------------------------------------------------
+# panels
+
+
+class Panel:
+    """One square drawing with a title; ``body`` is a list of SVG element strings in panel
+    coordinates (origin top-left of the drawing area)."""
+
+    def __init__(self, title: str, subtitle: str = ""):
+        self.title = title
+        self.subtitle = subtitle
+        self.body: list[str] = []
+
+    def svg(self, x: float, y: float) -> str:
+        parts = [f'<g class="panel" transform="translate({_f(x)},{_f(y)})">',
+                 f'<text class="title" x="0" y="14">{escape(self.title)}</text>']
+        if self.subtitle:
+            parts.append(f'<text class="subtitle" x="0" y="28">{escape(self.subtitle)}</text>')
+        parts.append(f'<g transform="translate(0,{TITLE})">')
+        parts.append(f'<rect class="frame" x="0" y="0" width="{PANEL}" height="{PANEL}"/>')
+        parts.extend(self.body)
+        parts.append("</g></g>")
+        return "\n".join(parts)
+
+
+class Plane:
+    """Maps user coordinates in the window ``[-R, R]^2`` to panel coordinates."""
+
+    def __init__(self, radius: float):
+        self.R = radius
+        self.s = (PANEL / 2 - MARGIN) / radius
+
+    def xy(self, p) -> tuple[float, float]:
+        return PANEL / 2 + self.s * float(p[0]), PANEL / 2 - self.s * float(p[1])
+
+    def pt(self, p) -> str:
+        x, y = self.xy(p)
+        return f"{_f(x)},{_f(y)}"
+
+    def box(self) -> list[tuple[float, float]]:
+        R = self.R
+        return [(-R, -R), (R, -R), (R, R), (-R, R)]
+
+    def to_edge(self, v) -> tuple[float, float]:
+        """The point where the ray through v leaves the window."""
+        m = max(abs(float(v[0])), abs(float(v[1])))
+        return (float(v[0]) * self.R / m, float(v[1]) * self.R / m)
+
+
+def _axes(plane: Plane) -> list[str]:
+    R = int(plane.R)
+    out = []
+    for k in range(-R, R + 1):
+        if k:
+            out.append(_line(plane, (k, -R), (k, R), "tick"))
+            out.append(_line(plane, (-R, k), (R, k), "tick"))
+    out.append(_line(plane, (-R, 0), (R, 0), "axis"))
+    out.append(_line(plane, (0, -R), (0, R), "axis"))
+    return out
+
+
+def _line(plane: Plane, p, q, cls: str) -> str:
+    (x1, y1), (x2, y2) = plane.xy(p), plane.xy(q)
+    return f'<line class="{cls}" x1="{_f(x1)}" y1="{_f(y1)}" x2="{_f(x2)}" y2="{_f(y2)}"/>'
+
+
+def _polygon(plane: Plane, poly, cls: str, fill: str | None = None) -> str:
+    style = f' style="fill:{fill}"' if fill else ""
+    return f'<polygon class="{cls}"{style} points="{" ".join(plane.pt(p) for p in poly)}"/>'
+
+
+def _region(plane: Plane, normals, equations) -> list[tuple[float, float]]:
+    """The window clipped to ``{<n, x> >= 0}`` and ``{<e, x> = 0}`` (float polygon; may be
+    degenerate for a cone that is not full-dimensional)."""
+    poly = plane.box()
+    for n in normals:
+        poly = _clip(poly, float(n[0]), float(n[1]), 0.0)
+    for e in equations:
+        poly = _clip(poly, float(e[0]), float(e[1]), 0.0)
+        poly = _clip(poly, -float(e[0]), -float(e[1]), 0.0)
+    return poly
+
+
+def _points(plane: Plane, pts, cls: str, r: float) -> list[str]:
+    out = []
+    for p in pts:
+        if max(abs(Fraction(c)) for c in p) > plane.R:
+            continue
+        x, y = plane.xy(_qv(p))
+        out.append(f'<circle class="{cls}" cx="{_f(x)}" cy="{_f(y)}" r="{r}" data-point="{_exact(p)}"/>')
+    return out
+
+
+def _rays(plane: Plane, rays, labels=None) -> list[str]:
+    out = []
+    for i, r in enumerate(rays):
+        q = _qv(r)
+        if not any(q):
+            continue
+        end = plane.to_edge(q)
+        out.append(_line(plane, (0, 0), end, "ray"))
+        x, y = plane.xy(end)
+        x = min(max(x, 4), PANEL - 60)
+        y = min(max(y, 12), PANEL - 4)
+        text = labels[i] if labels else _vec_text(r)
+        out.append(f'<text class="ray-label" x="{_f(x)}" y="{_f(y)}">{escape(text)}</text>')
+    return out
+
+
+def _cone_panel_2d(title: str, subtitle: str, radius: int, rays, lineality, normals, equations,
+                   points, basis) -> Panel:
+    panel = Panel(title, subtitle)
+    plane = Plane(radius)
+    panel.body += _axes(plane)
+    poly = _region(plane, normals, equations)
+    if len(poly) >= 3:
+        panel.body.append(_polygon(plane, poly, "region"))
+    both = list(rays) + [l for l in lineality] + [[-Fraction(x) for x in l] for l in lineality]
+    panel.body += _rays(plane, both)
+    panel.body += _points(plane, points, "lattice-point", 2.5)
+    panel.body += _points(plane, basis, "hilbert-basis", 5.5)
+    return panel
+
+
+def _window(vectors, lo: int = 3, hi: int = 8) -> int:
+    size = 0
+    for v in vectors:
+        for c in v:
+            size = max(size, abs(Fraction(c)))
+    return max(lo, min(hi, int(size) + (Fraction(size).denominator != 1)))
+
+
+# ---------------------------------------------------------------------------------------------
+# cross-sections in rank 3
+
+
+def _section_frame(w):
+    """An orthogonal rational basis (b1, b2) of w^⊥ (w a nonzero rational 3-vector)."""
+    w = _qv(w)
+    cands = [(w[1], -w[0], 0), (w[2], 0, -w[0]), (0, w[2], -w[1])]
+    cands = [c for c in cands if any(c)]
+    b1 = cands[0]
+    b2 = None
+    for c in cands[1:] + [tuple(w[(i + 1) % 3] * b1[(i + 2) % 3] - w[(i + 2) % 3] * b1[(i + 1) % 3]
+                                for i in range(3))]:
+        t = _dot(c, b1) / _dot(b1, b1)
+        cand = tuple(x - t * y for x, y in zip(c, b1))
+        if any(cand):
+            b2 = cand
+            break
+    return b1, b2
+
+
+def section_coordinates(points, w):
+    """Exact coordinates ``(s, t)`` of ``p / <w, p>`` in the basis of :func:`_section_frame`
+    for each point (Fractions, with respect to the orthogonal basis b1, b2), and the float
+    scale factors ``|b1|, |b2|`` turning them into Euclidean coordinates.
+
+    >>> cs, _ = section_coordinates([(1, 0, 1), (0, 1, 1)], (0, 0, 1))
+    >>> [tuple(str(x) for x in c) for c in cs]
+    [('1', '0'), ('0', '1')]
+    """
+    b1, b2 = _section_frame(w)
+    out = []
+    for p in points:
+        p = _qv(p)
+        h = _dot(w, p)
+        x = tuple(c / h for c in p)
+        out.append((_dot(x, b1) / _dot(b1, b1), _dot(x, b2) / _dot(b2, b2)))
+    return out, (sqrt(float(_dot(b1, b1))), sqrt(float(_dot(b2, b2))))
+
+
+def _section_panel(title: str, subtitle: str, vertices, labels, w, extra=(), polygons=None,
+                   fills=None) -> Panel:
+    """Panel with the section of cone(vertices) (or of each cone in ``polygons``, lists of
+    vertex indices) by <w, x> = 1; ``extra`` are points drawn as Hilbert basis marks."""
+    panel = Panel(title, subtitle)
+    allpts = list(vertices) + list(extra)
+    coords, (n1, n2) = section_coordinates(allpts, w)
+    xy = [(float(s) * n1, float(t) * n2) for s, t in coords]
+    xs = [p[0] for p in xy] or [0.0]
+    ys = [p[1] for p in xy] or [0.0]
+    cx, cy = (max(xs) + min(xs)) / 2, (max(ys) + min(ys)) / 2
+    span = max(max(xs) - min(xs), max(ys) - min(ys), 1e-9)
+    scale = (PANEL - 2 * MARGIN - 40) / span
+
+    def at(i):
+        x, y = xy[i]
+        return PANEL / 2 + scale * (x - cx), PANEL / 2 - scale * (y - cy)
+
+    def ordered(idx):
+        mx = sum(xy[i][0] for i in idx) / len(idx)
+        my = sum(xy[i][1] for i in idx) / len(idx)
+        from math import atan2
+        return sorted(idx, key=lambda i: atan2(xy[i][1] - my, xy[i][0] - mx))
+
+    groups = polygons if polygons is not None else [list(range(len(vertices)))]
+    for k, g in enumerate(groups):
+        if not g:
+            continue
+        g = ordered(list(g))
+        pts = " ".join(f"{_f(at(i)[0])},{_f(at(i)[1])}" for i in g)
+        fill = (fills or FILLS)[k % len(fills or FILLS)]
+        if len(g) >= 3:
+            panel.body.append(f'<polygon class="section" style="fill:{fill}" points="{pts}"/>')
+        elif len(g) == 2:
+            panel.body.append(f'<polyline class="section" style="fill:none" points="{pts}"/>')
+    for i, v in enumerate(vertices):
+        x, y = at(i)
+        panel.body.append(f'<circle class="ray-generator" cx="{_f(x)}" cy="{_f(y)}" r="3.5" '
+                          f'data-point="{_exact(v)}"/>')
+        tx = min(max(x + 5, 2), PANEL - 70)
+        ty = min(max(y - 5, 12), PANEL - 4)
+        panel.body.append(f'<text class="ray-label" x="{_f(tx)}" y="{_f(ty)}">{escape(labels[i])}</text>')
+    for j, p in enumerate(extra):
+        x, y = at(len(vertices) + j)
+        panel.body.append(f'<circle class="hilbert-basis" cx="{_f(x)}" cy="{_f(y)}" r="5" '
+                          f'data-point="{_exact(p)}"/>')
+    return panel
+
+
+def _sum(vectors, n):
+    out = [Fraction(0)] * n
+    for v in vectors:
+        out = [a + Fraction(b) for a, b in zip(out, v)]
+    return tuple(out)
+
+
+def _note_panel(title: str, text: str) -> Panel:
+    p = Panel(title)
+    y = 40
+    for line in _wrap(text, 46):
+        p.body.append(f'<text class="note" x="12" y="{y}">{escape(line)}</text>')
+        y += 16
+    return p
+
+
+def _wrap(text: str, width: int) -> list[str]:
+    out, cur = [], ""
+    for word in text.split():
+        if cur and len(cur) + 1 + len(word) > width:
+            out.append(cur)
+            cur = word
+        else:
+            cur = f"{cur} {word}" if cur else word
+    if cur:
+        out.append(cur)
+    return out
+
+
+# ---------------------------------------------------------------------------------------------
+# objects
+
+
+def cone_panels(name: str, o: dict) -> list[Panel]:
+    n = o["ambient_dim"]
+    lattice = o["lattice"]
+    var = o.get("variety") or {}
+    dual_basis = var.get("generators", [])
+    if n == 2:
+        radius = o.get("lattice_window") or _window(o["rays"] + o.get("hilbert_basis", []) + o["facets"])
+        p1 = _cone_panel_2d(f"cone {name} in {lattice}", "σ, its lattice points and Hilbert basis (ringed)",
+                            radius, o["rays"], o["lineality"], o["facets"], o["linear_equations"],
+                            o.get("lattice_points", []), o.get("hilbert_basis", []))
+        # the dual: rays = facets, lineality = equations; normals = rays (and ± lineality)
+        dual_normals = list(o["rays"]) + [l for l in o["lineality"]] + [[-Fraction(x) for x in l] for l in o["lineality"]]
+        p2 = _cone_panel_2d(f"dual of {name}", "σ^∨ ∩ M; ringed: the coordinates z_i of U_σ",
+                            radius, o["facets"], o["linear_equations"], dual_normals, [],
+                            o.get("dual_lattice_points", []), dual_basis)
+        return [p1, p2]
+    if n == 3:
+        if not o.get("pointed") or not o["rays"]:
+            return [_note_panel(f"cone {name} in {lattice}",
+                                "this cone is not pointed (or is zero): it has no bounded cross-section")]
+        w = _sum(o["facets"], 3) if o["facets"] else _qv(o["rays"][0])
+        if not o["facets"]:
+            return [_note_panel(f"cone {name} in {lattice}", "a single ray: its cross-section is a point")]
+        hb = [h for h in o.get("hilbert_basis", []) if h not in o["rays"]]
+        p1 = _section_panel(f"cone {name} in {lattice}", f"section by <{_vec_text(w)}, x> = 1; ringed: Hilbert basis",
+                            o["rays"], [_vec_text(r) for r in o["rays"]], w, hb)
+        panels = [p1]
+        if o.get("full") and o["facets"]:
+            w2 = _sum(o["rays"], 3)
+            dhb = [g for g in dual_basis if g not in o["facets"]]
+            panels.append(_section_panel(f"dual of {name}", f"section by <x, {_vec_text(w2)}> = 1; ringed: z_i of U_σ",
+                                         o["facets"], [_vec_text(u) for u in o["facets"]], w2, dhb))
+        return panels
+    return []
+
+
+def fan_panels(name: str, o: dict) -> list[Panel]:
+    rays = o["rays"]
+    if not rays:
+        return []
+    n = len(rays[0])
+    cones = [[i - 1 for i in c] for c in (o.get("maximal_cones") or o["cones"])]
+    used = {i for c in cones for i in c}
+    cones += [[i] for i in range(len(rays)) if i not in used]
+    title = f"fan {name} in {o['lattice']}"
+    sub = f"a resolution of {o['resolves']}" if o.get("resolves") else ""
+    if o.get("valid") is False:
+        sub = "not a fan: the listed cones overlap or are not cones of a fan"
+    labels = [f"{i + 1}" for i in range(len(rays))]
+    if n == 2:
+        radius = _window(rays)
+        panel = Panel(title, sub)
+        plane = Plane(radius)
+        panel.body += _axes(plane)
+        for k, c in enumerate(cones):
+            if len(c) >= 2:
+                normals = _plane_cone_normals([_qv(rays[i]) for i in c])
+                if normals is not None:
+                    poly = _region(plane, normals, [])
+                    if len(poly) >= 3:
+                        panel.body.append(_polygon(plane, poly, "region", FILLS[k % len(FILLS)]))
+        panel.body += _rays(plane, rays, [f"{i + 1}: {_vec_text(r)}" for i, r in enumerate(rays)])
+        for i, r in enumerate(rays):
+            if max(abs(Fraction(c)) for c in r) <= radius:
+                x, y = plane.xy(_qv(r))
+                panel.body.append(f'<circle class="ray-generator" cx="{_f(x)}" cy="{_f(y)}" r="3.5" '
+                                  f'data-point="{_exact(r)}"/>')
+        return [panel]
+    if n == 3:
+        w = _positive_functional(rays)
+        if w is None:
+            return [_note_panel(title, "the rays of this fan do not lie in an open half-space, so no single "
+                                       "plane section shows it (e.g. a complete fan)")]
+        return [_section_panel(title, (sub + "; " if sub else "") + f"section by <{_vec_text(w)}, x> = 1",
+                               rays, labels, w, polygons=cones)]
+    return []
+
+
+def _plane_cone_normals(gens):
+    """Inner normals of a pointed plane cone spanned by ``gens`` (None if degenerate)."""
+    # the two extreme generators: those with all others on one side
+    best = None
+    for a in gens:
+        for b in gens:
+            d = a[0] * b[1] - a[1] * b[0]
+            if d > 0 and all(a[0] * g[1] - a[1] * g[0] >= 0 and g[0] * b[1] - g[1] * b[0] >= 0 for g in gens):
+                best = (a, b)
+    if best is None:
+        return None
+    a, b = best
+    return [(-a[1], a[0]), (b[1], -b[0])]
+
+
+def _positive_functional(rays):
+    """A rational w with <w, v> > 0 for every ray (exact), or None."""
+    from ..geometry.cone import cone_from_rays
+    ints = []
+    for r in rays:
+        q = _qv(r)
+        den = 1
+        for x in q:
+            den = den * x.denominator // _gcd(den, x.denominator)
+        ints.append(tuple(int(x * den) for x in q))
+    c = cone_from_rays(ints, 3)
+    if not c.pointed:
+        return None
+    if c.dim < 3:
+        w = _sum(c.facets, 3) if c.facets else _qv(c.rays[0])
+        # add a multiple of the rays' span direction so that w is positive on the rays
+        w = tuple(a + b for a, b in zip(w, _sum(c.rays, 3)))
+    else:
+        w = _sum(c.facets, 3)
+    if all(_dot(w, _qv(r)) > 0 for r in rays):
+        return w
+    return None
+
+
+def _gcd(a: int, b: int) -> int:
+    while b:
+        a, b = b, a % b
+    return a
+
+
+def render(doc: dict) -> str:
+    """One SVG document with a row of panels per drawable object (see the module docstring)."""
+    rows: list[list[Panel]] = []
+    skipped = []
+    for name, o in doc.get("objects", {}).items():
+        kind = o.get("kind")
+        panels = []
+        if kind == "cone":
+            panels = cone_panels(name, o)
+        elif kind == "fan":
+            panels = fan_panels(name, o)
+        if panels:
+            rows.append(panels)
+        elif kind in ("cone", "fan"):
+            skipped.append(name)
+    if not rows:
+        note = "nothing to draw: pictures are made for cones and fans in lattices of rank 2 and 3"
+        rows.append([_note_panel(doc.get("file", ""), note)])
+    width = max(len(r) for r in rows) * (PANEL + GAP) + GAP
+    height = len(rows) * (PANEL + TITLE + GAP) + GAP + (20 if skipped else 0)
+    parts = [f'<svg xmlns="http://www.w3.org/2000/svg" width="{width}" height="{height}" '
+             f'viewBox="0 0 {width} {height}" font-family="sans-serif" font-size="11">',
+             f"<title>{escape(str(doc.get('file', '')))}</title>",
+             f"<style>{STYLE}</style>",
+             f'<rect x="0" y="0" width="{width}" height="{height}" fill="white"/>']
+    y = GAP
+    for row in rows:
+        x = GAP
+        for p in row:
+            parts.append(p.svg(x, y))
+            x += PANEL + GAP
+        y += PANEL + TITLE + GAP
+    if skipped:
+        parts.append(f'<text class="note" x="{GAP}" y="{y + 4}">'
+                     f'{escape("not drawn (rank other than 2 or 3): " + ", ".join(skipped))}</text>')
+    parts.append("</svg>")
+    return "\n".join(parts) + "\n"
