@@ -6,7 +6,7 @@ does no I/O.  Analyses are cached per text, and heavy results per mathematical v
 
 >>> h = AnalysisHost()
 >>> h.apply_change("mem://a.cone", "lattice N = Z^2\\ncone c in N { rays (1,0) (1,2) }")
->>> h.definition("mem://a.cone", 43)   # the lattice name in 'in N'
+>>> h.definition("mem://a.cone", 26)   # the lattice name in 'in N'
 (8, 9)
 """
 from __future__ import annotations
@@ -17,6 +17,7 @@ from .semantics.diagnostics import Diagnostic
 from .semantics.engine import Engine
 from .semantics.facts import object_facts
 from .syntax import ast as A
+from . import editor
 
 
 def diagnostic_json(d: Diagnostic, index) -> dict:
@@ -27,8 +28,11 @@ def diagnostic_json(d: Diagnostic, index) -> dict:
 
 
 class AnalysisHost:
-    def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT):
+    def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT, cancel=None):
+        """``cancel``: an object with ``is_set()`` (a threading or multiprocessing Event, or the
+        language server's per-job flag) that stops heavy computations when set."""
         self.budget_limit = budget_limit
+        self.cancel = cancel
         self.texts: dict[str, str] = {}
         self._analyses: dict[str, Analysis] = {}
 
@@ -42,10 +46,17 @@ class AnalysisHost:
         self.texts.pop(uri, None)
         self._analyses.pop(uri, None)
 
+    def forget_analysis(self, uri: str) -> None:
+        """Drop the cached analysis of ``uri`` (e.g. after a cancelled computation)."""
+        self._analyses.pop(uri, None)
+
+    def text(self, uri: str) -> str:
+        return self.texts.get(uri, "")
+
     def analysis(self, uri: str, engine: Engine | None = None) -> Analysis:
         a = self._analyses.get(uri)
         if a is None:
-            a = Analysis(self.texts.get(uri, ""), engine or Engine(self.budget_limit))
+            a = Analysis(self.texts.get(uri, ""), engine or Engine(self.budget_limit, self.cancel))
             self._analyses[uri] = a
         return a
 
@@ -95,16 +106,57 @@ class AnalysisHost:
         return [(st.name.text, st.kind, st.span, st.name.span)
                 for st in a.module.statements if not isinstance(st, A.Expect)]
 
-    def hover(self, uri: str, offset: int) -> tuple[str, tuple] | None:
-        """Markdown about the name under ``offset`` and the span it covers."""
-        from .render.markdown import render_object
-        a = self.analysis(uri)
-        hit = a.node_at(offset)
-        if hit is None or hit[1] is None:
-            return None
-        name = hit[1]
-        a.evaluate_all()
-        facts = object_facts(a, name, heavy=True)
-        if facts is None:
-            return (f"`{name}`: {a.kind_of(name)} (has errors)", hit[2])
-        return (render_object(name, facts, level=3), hit[2])
+    # -- editor questions (see conelang.editor; every answer is a pure function of the text) --
+    def hover(self, uri: str, offset: int, heavy: bool = True) -> tuple[str, tuple] | None:
+        """Markdown about the name or vector under ``offset`` and the span it covers.
+
+        With ``heavy=False`` only what is cheap to compute is shown (no Hilbert bases,
+        equations or invariants).
+
+        >>> h = AnalysisHost()
+        >>> h.apply_change("m", "lattice N = Z^2\\ncone c in N { rays (2,0) (1,3) }")
+        >>> print(h.hover("m", 36, heavy=False)[0])   # on the vector (2,0)
+        ray `(2, 0)` of `c`: **not primitive** (the primitive vector on this ray is `(1, 0)`) · **extremal**
+        """
+        return editor.hover(self.analysis(uri), offset, heavy)
+
+    def hover_pending(self, uri: str, offset: int) -> str | None:
+        """What a heavy hover at ``offset`` still has to compute (None: the hover is cheap)."""
+        return editor.hover_pending(self.analysis(uri), offset)
+
+    def object_markdown(self, uri: str, name: str, heavy: bool = True) -> str | None:
+        return editor.object_markdown(self.analysis(uri), name, heavy)
+
+    def completions(self, uri: str, offset: int) -> list:
+        return editor.completions(self.analysis(uri), offset)
+
+    def code_fixes(self, uri: str, start: int, end: int) -> list:
+        return editor.code_fixes(self.analysis(uri), start, end)
+
+    def pin_target(self, uri: str, offset: int) -> str | None:
+        return editor.pin_target(self.analysis(uri), offset)
+
+    def pin_results(self, uri: str, name: str):
+        return editor.pin_results(self.analysis(uri), name)
+
+    def inlay_hints(self, uri: str, heavy: bool = True) -> list:
+        return editor.inlay_hints(self.analysis(uri), heavy)
+
+    def semantic_tokens(self, uri: str) -> list:
+        return editor.semantic_tokens(self.analysis(uri))
+
+    def outline(self, uri: str) -> list:
+        return editor.outline(self.analysis(uri).module, self.text(uri))
+
+    def folding_ranges(self, uri: str) -> list:
+        return editor.folding_ranges(self.analysis(uri))
+
+    def prepare_rename(self, uri: str, offset: int):
+        return editor.prepare_rename(self.analysis(uri), offset)
+
+    def rename(self, uri: str, offset: int, new_name: str) -> list:
+        return editor.rename(self.analysis(uri), offset, new_name)
+
+    def format(self, uri: str) -> str:
+        from .syntax.format import format_text
+        return format_text(self.text(uri))

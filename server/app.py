@@ -1,0 +1,707 @@
+"""The conelang language server (LSP over stdio, pygls 2).
+
+The handlers are thin: they turn positions into offsets, ask :class:`conelang.host.AnalysisHost`
+(cheap questions, on the event loop) or the worker process (heavy ones: expectations, Hilbert
+bases, equations, invariants; see :mod:`conelang.server.worker`), and turn the answers back into
+protocol objects.  Every handler is wrapped so that one bad request never takes the server
+down.
+
+Settings (``initializationOptions`` of the client, all optional)::
+
+    {"budget": 20000000,        # work budget per heavy computation, or "none"
+     "debounce": 0.15,          # seconds to wait after an edit before checking the file
+     "hoverWait": 0.8,          # seconds a hover waits for the worker before saying "computing…"
+     "diagnosticsWait": 0.3}    # seconds the cheap diagnostics wait for the full ones
+"""
+from __future__ import annotations
+
+import asyncio
+import functools
+import hashlib
+import inspect
+import logging
+import os
+import sys
+from collections import OrderedDict
+from pathlib import Path
+from urllib.parse import unquote, urlparse
+
+from lsprotocol import types as T
+from pygls.exceptions import JsonRpcException
+from pygls.lsp.server import LanguageServer
+from pygls.protocol import LanguageServerProtocol
+
+import conelang
+from conelang import editor
+from conelang.geometry import budget as gbudget
+from conelang.host import AnalysisHost
+from conelang.syntax import ast as A
+from conelang.syntax.parser import parse
+
+from .convert import Positions
+from .worker import HeavyWorker, JobCancelled, WorkerFailed
+
+log = logging.getLogger("conelang.server")
+
+SEVERITY = {"error": T.DiagnosticSeverity.Error, "warning": T.DiagnosticSeverity.Warning,
+            "information": T.DiagnosticSeverity.Information, "hint": T.DiagnosticSeverity.Hint}
+COMPLETION_KIND = {"keyword": T.CompletionItemKind.Keyword, "lattice": T.CompletionItemKind.Struct,
+                   "cone": T.CompletionItemKind.Variable, "map": T.CompletionItemKind.Function,
+                   "morphism": T.CompletionItemKind.Method, "characters": T.CompletionItemKind.EnumMember,
+                   "fan": T.CompletionItemKind.Module, "property": T.CompletionItemKind.Property,
+                   "snippet": T.CompletionItemKind.Snippet}
+SYMBOL_KIND = {"lattice": T.SymbolKind.Struct, "cone": T.SymbolKind.Variable, "map": T.SymbolKind.Function,
+               "morphism": T.SymbolKind.Method, "characters": T.SymbolKind.EnumMember,
+               "fan": T.SymbolKind.Module}
+PIN_COMMAND = "conelang.pinResults"
+LEGEND = T.SemanticTokensLegend(token_types=list(editor.TOKEN_TYPES), token_modifiers=list(editor.TOKEN_MODIFIERS))
+
+
+def fingerprint(text: str) -> str:
+    return hashlib.blake2b(text.encode("utf-8", "surrogatepass"), digest_size=16).hexdigest()
+
+
+class _Dropped:
+    """A request that could not be read; it has been answered with an error already."""
+    jsonrpc = "dropped"
+
+
+class ConeProtocol(LanguageServerProtocol):
+    """pygls' protocol, except that a request whose params do not fit the method gets an
+    error response (instead of no response at all, which would leave the client waiting)."""
+
+    def structure_message(self, data):
+        try:
+            return super().structure_message(data)
+        except JsonRpcException as exc:
+            if isinstance(data, dict) and "id" in data and "method" in data:
+                try:
+                    self._send_response(data["id"], error=T.ResponseError(
+                        code=exc.code, message=f"invalid request {data.get('method')!r}: {exc.message}"))
+                except Exception:
+                    log.exception("cannot answer a malformed request")
+                return _Dropped()
+            raise
+
+
+class ConeServer(LanguageServer):
+    def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT):
+        super().__init__("conelang", conelang.__version__, protocol_cls=ConeProtocol)
+        self.budget_limit = budget_limit
+        self.host = AnalysisHost(budget_limit)
+        self.worker: HeavyWorker | None = None
+        self.debounce = 0.15
+        self.hover_wait = 0.8
+        self.diagnostics_wait = 0.3
+        self.versions: dict[str, int | None] = {}
+        self.tasks: dict[str, asyncio.Task] = {}
+        self.cache: OrderedDict = OrderedDict()
+        self.last_full: dict[str, tuple[str, list, list]] = {}   # uri -> (text, diagnostics, expect spans)
+        self.workspace_files: dict[str, tuple[float, int, list]] = {}
+
+    # -- helpers ---------------------------------------------------------------------------
+    def configure(self, options) -> None:
+        if not isinstance(options, dict):
+            return
+        if "budget" in options:
+            b = options["budget"]
+            self.budget_limit = None if b in (None, "none", "unlimited") else int(b)
+            self.host.budget_limit = self.budget_limit
+        for key, attr in (("debounce", "debounce"), ("hoverWait", "hover_wait"),
+                          ("diagnosticsWait", "diagnostics_wait")):
+            if key in options:
+                setattr(self, attr, max(0.0, float(options[key])))
+
+    def start_worker(self) -> None:
+        if self.worker is None:
+            self.worker = HeavyWorker(self.budget_limit)
+            self.worker.start()
+            self.worker.submit("ping", "", "", key="")
+
+    def encoding(self) -> str:
+        try:
+            return str(self.workspace.position_encoding.value)
+        except Exception:
+            return "utf-16"
+
+    def positions(self, uri: str) -> Positions:
+        return Positions(self.host.analysis(uri).index, self.encoding())
+
+    def offset(self, uri: str, pos: T.Position) -> int:
+        return self.positions(uri).from_lsp(pos)
+
+    def cache_get(self, key):
+        if key in self.cache:
+            self.cache.move_to_end(key)
+            return self.cache[key]
+        return None
+
+    def cache_put(self, key, value) -> None:
+        self.cache[key] = value
+        self.cache.move_to_end(key)
+        while len(self.cache) > 512:
+            self.cache.popitem(last=False)
+
+    def heavy(self, kind: str, uri: str, *args, interactive: bool = False):
+        """Submit a heavy job for the current text of ``uri``: (key, asyncio future)."""
+        self.start_worker()
+        text = self.host.text(uri)
+        key = fingerprint(text)
+        fut = self.worker.submit(kind, uri, text, *args, key=key, interactive=interactive)
+        return key, asyncio.wrap_future(fut)
+
+    def ensure_text(self, uri: str) -> None:
+        """Make sure the host has the text of ``uri`` (opened documents always do; a request
+        about a file that was never opened reads it from disk when possible)."""
+        if uri in self.host.texts:
+            return
+        try:
+            doc = self.workspace.get_text_document(uri)
+            text = doc.source
+        except Exception:
+            text = ""
+        self.host.apply_change(uri, text)
+
+    # -- diagnostics ---------------------------------------------------------------------
+    def lsp_diagnostic(self, uri: str, d, pos: Positions) -> T.Diagnostic:
+        related = [T.DiagnosticRelatedInformation(location=T.Location(uri=uri, range=pos.lsp_range(r.span)),
+                                                  message=r.message) for r in d.related] or None
+        return T.Diagnostic(range=pos.lsp_range(d.span), message=d.message,
+                            severity=SEVERITY.get(d.severity, T.DiagnosticSeverity.Error),
+                            code=d.code, source="conelang", related_information=related,
+                            tags=[T.DiagnosticTag.Unnecessary] if d.unnecessary else None)
+
+    def publish(self, uri: str, diags) -> None:
+        pos = self.positions(uri)
+        items = [self.lsp_diagnostic(uri, d, pos) for d in diags]
+        self.text_document_publish_diagnostics(
+            T.PublishDiagnosticsParams(uri=uri, diagnostics=items, version=self.versions.get(uri)))
+
+    def schedule(self, uri: str, delay: float) -> None:
+        old = self.tasks.pop(uri, None)
+        if old is not None and not old.done():
+            old.cancel()
+        self.tasks[uri] = asyncio.ensure_future(self.diagnose(uri, delay))
+
+    async def diagnose(self, uri: str, delay: float) -> None:
+        try:
+            if delay:
+                await asyncio.sleep(delay)
+            text = self.host.text(uri)
+            key = fingerprint(text)
+            cached = self.cache_get(("diagnostics", key))
+            if cached is not None:
+                self.publish(uri, cached)
+                return
+            cheap = self.host.diagnostics(uri, expectations=False)
+            _, fut = self.heavy("diagnostics", uri)
+            try:
+                full = await asyncio.wait_for(asyncio.shield(fut), self.diagnostics_wait)
+            except asyncio.TimeoutError:
+                self.publish(uri, cheap + self.carried_over(uri, cheap))
+                full = await fut
+            if self.host.text(uri) != text:
+                return
+            self.cache_put(("diagnostics", key), full)
+            a = self.host.analysis(uri)
+            self.last_full[uri] = (text, full, [(a.text[e.span[0]:e.span[1]], e.span) for e in a.expects])
+            self.publish(uri, full)
+        except asyncio.CancelledError:
+            raise
+        except JobCancelled:
+            return
+        except WorkerFailed as exc:
+            if self.host.text(uri) == text:
+                note = _note((0, 0), "server", f"expectations were not checked: {exc}")
+                self.publish(uri, self.host.diagnostics(uri, expectations=False) + [note])
+        except Exception:
+            log.exception("diagnostics of %s failed", uri)
+
+    def carried_over(self, uri: str, cheap) -> list:
+        """The previous results of unchanged ``expect`` statements, moved to where they are
+        now, so that they do not flicker while the new results are computed."""
+        prev = self.last_full.get(uri)
+        if prev is None:
+            return []
+        _, old_diags, old_expects = prev
+        a = self.host.analysis(uri)
+        free: dict[str, list] = {}
+        for e in a.expects:
+            free.setdefault(a.text[e.span[0]:e.span[1]], []).append(e.span)
+        moved = {}
+        for src, span in old_expects:
+            if free.get(src):
+                moved[span] = free[src].pop(0)
+        have = {(d.code, d.message) for d in cheap}
+        out = []
+        for d in old_diags:
+            for old_span, new_span in moved.items():
+                if old_span[0] <= d.span[0] and d.span[1] <= old_span[1] and (d.code, d.message) not in have:
+                    shift = new_span[0] - old_span[0]
+                    out.append(_shifted(d, shift))
+                    break
+        return out
+
+
+def _shifted(d, shift: int):
+    from dataclasses import replace
+    return replace(d, span=(d.span[0] + shift, d.span[1] + shift), related=(), fixes=())
+
+
+def _note(span, code, message):
+    from conelang.semantics.diagnostics import Diagnostic
+    return Diagnostic(span, "information", code, message)
+
+
+server = None  # the running server (set by create_server)
+
+
+def safe(default=None):
+    """Wrap a handler: any exception is logged and ``default`` is answered instead, except
+    deliberate protocol errors (e.g. a refused rename), which reach the client."""
+    def wrap(fn):
+        if inspect.iscoroutinefunction(fn):
+            @functools.wraps(fn)
+            async def run(ls, *args, **kw):
+                try:
+                    return await fn(ls, *args, **kw)
+                except (JsonRpcException, asyncio.CancelledError):
+                    raise
+                except Exception:
+                    log.exception("%s failed", fn.__name__)
+                    return default() if callable(default) else default
+        else:
+            @functools.wraps(fn)
+            def run(ls, *args, **kw):
+                try:
+                    return fn(ls, *args, **kw)
+                except JsonRpcException:
+                    raise
+                except Exception:
+                    log.exception("%s failed", fn.__name__)
+                    return default() if callable(default) else default
+        return run
+    return wrap
+
+
+def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServer:
+    ls = ConeServer(budget_limit)
+
+    # -- life cycle ----------------------------------------------------------------------
+    @ls.feature(T.INITIALIZE)
+    @safe()
+    def initialize(ls: ConeServer, params: T.InitializeParams):
+        ls.configure(params.initialization_options)
+        ls.start_worker()
+
+    @ls.feature(T.SHUTDOWN)
+    @safe()
+    def shutdown(ls: ConeServer, params):
+        if ls.worker is not None:
+            ls.worker.stop()
+
+    @ls.feature(T.EXIT)
+    @safe()
+    def exit_(ls: ConeServer, params):
+        if ls.worker is not None:
+            ls.worker.stop()
+
+    # -- documents -------------------------------------------------------------------------
+    @ls.feature(T.TEXT_DOCUMENT_DID_OPEN)
+    @safe()
+    def did_open(ls: ConeServer, params: T.DidOpenTextDocumentParams):
+        uri = params.text_document.uri
+        ls.versions[uri] = params.text_document.version
+        ls.host.apply_change(uri, params.text_document.text)
+        ls.schedule(uri, 0.0)
+
+    @ls.feature(T.TEXT_DOCUMENT_DID_CHANGE)
+    @safe()
+    def did_change(ls: ConeServer, params: T.DidChangeTextDocumentParams):
+        uri = params.text_document.uri
+        ls.versions[uri] = params.text_document.version
+        text = ls.workspace.get_text_document(uri).source
+        ls.host.apply_change(uri, text)
+        if ls.worker is not None:
+            ls.worker.cancel_stale(uri, fingerprint(text))
+        ls.schedule(uri, ls.debounce)
+
+    @ls.feature(T.TEXT_DOCUMENT_DID_CLOSE)
+    @safe()
+    def did_close(ls: ConeServer, params: T.DidCloseTextDocumentParams):
+        uri = params.text_document.uri
+        task = ls.tasks.pop(uri, None)
+        if task is not None:
+            task.cancel()
+        if ls.worker is not None:
+            ls.worker.cancel_stale(uri, None)
+        ls.host.remove(uri)
+        ls.versions.pop(uri, None)
+        ls.last_full.pop(uri, None)
+        ls.text_document_publish_diagnostics(T.PublishDiagnosticsParams(uri=uri, diagnostics=[]))
+
+    # -- hover -----------------------------------------------------------------------------
+    @ls.feature(T.TEXT_DOCUMENT_HOVER)
+    @safe()
+    async def hover(ls: ConeServer, params: T.HoverParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        pos = ls.positions(uri)
+        offset = pos.from_lsp(params.position)
+        light = ls.host.hover(uri, offset, heavy=False)
+        if light is None:
+            return None
+        md, span = light
+        rng = pos.lsp_range(span)
+        pending = ls.host.hover_pending(uri, offset)
+        if pending is not None:
+            name = ls.host.analysis(uri).node_at(offset)[1]
+            key = fingerprint(ls.host.text(uri))
+            full = ls.cache_get(("markdown", key, name))
+            if full is None:
+                _, fut = ls.heavy("markdown", uri, name, interactive=True)
+                try:
+                    full = await asyncio.wait_for(asyncio.shield(fut), ls.hover_wait)
+                    ls.cache_put(("markdown", key, name), full)
+                except asyncio.TimeoutError:
+                    md += f"\n\n*computing… ({pending})*"
+                except JobCancelled:
+                    md += "\n\n*the computation was interrupted by an edit; hover again*"
+                except WorkerFailed as exc:
+                    md += f"\n\n*not computed: {exc}*"
+            if full is not None:
+                md = full
+        return T.Hover(contents=T.MarkupContent(kind=T.MarkupKind.Markdown, value=md), range=rng)
+
+    # -- navigation ------------------------------------------------------------------------
+    @ls.feature(T.TEXT_DOCUMENT_DEFINITION)
+    @safe()
+    def definition(ls: ConeServer, params: T.DefinitionParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        span = ls.host.definition(uri, ls.offset(uri, params.position))
+        if span is None:
+            return None
+        return T.Location(uri=uri, range=ls.positions(uri).lsp_range(span))
+
+    @ls.feature(T.TEXT_DOCUMENT_REFERENCES)
+    @safe(list)
+    def references(ls: ConeServer, params: T.ReferenceParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        include = params.context.include_declaration if params.context else True
+        spans = ls.host.references(uri, ls.offset(uri, params.position), include)
+        pos = ls.positions(uri)
+        return [T.Location(uri=uri, range=pos.lsp_range(s)) for s in spans]
+
+    @ls.feature(T.TEXT_DOCUMENT_DOCUMENT_HIGHLIGHT)
+    @safe(list)
+    def highlight(ls: ConeServer, params: T.DocumentHighlightParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        pos = ls.positions(uri)
+        spans = ls.host.references(uri, pos.from_lsp(params.position), True)
+        return [T.DocumentHighlight(range=pos.lsp_range(s)) for s in spans]
+
+    @ls.feature(T.TEXT_DOCUMENT_PREPARE_RENAME)
+    @safe()
+    def prepare_rename(ls: ConeServer, params: T.PrepareRenameParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        hit = ls.host.prepare_rename(uri, ls.offset(uri, params.position))
+        if hit is None:
+            return None
+        span, name = hit
+        return T.PrepareRenamePlaceholder(range=ls.positions(uri).lsp_range(span), placeholder=name)
+
+    @ls.feature(T.TEXT_DOCUMENT_RENAME, T.RenameOptions(prepare_provider=True))
+    @safe()
+    def rename(ls: ConeServer, params: T.RenameParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        try:
+            edits = ls.host.rename(uri, ls.offset(uri, params.position), params.new_name)
+        except editor.RenameError as exc:
+            raise JsonRpcException(str(exc), code=-32803) from None   # RequestFailed
+        pos = ls.positions(uri)
+        return T.WorkspaceEdit(changes={uri: [T.TextEdit(range=pos.lsp_range(e.span), new_text=e.new_text)
+                                              for e in edits]})
+
+    @ls.feature(T.TEXT_DOCUMENT_DOCUMENT_SYMBOL)
+    @safe(list)
+    def document_symbols(ls: ConeServer, params: T.DocumentSymbolParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        pos = ls.positions(uri)
+        return [T.DocumentSymbol(name=s.name, detail=s.detail, kind=SYMBOL_KIND.get(s.kind, T.SymbolKind.Variable),
+                                 range=pos.lsp_range(s.span), selection_range=pos.lsp_range(s.name_span))
+                for s in ls.host.outline(uri)]
+
+    @ls.feature(T.WORKSPACE_SYMBOL)
+    @safe(list)
+    def workspace_symbols(ls: ConeServer, params: T.WorkspaceSymbolParams):
+        out = []
+        for uri, text in ls.workspace_texts():
+            for _, s, _ in editor.workspace_symbols([(uri, text)], params.query or ""):
+                pos = Positions(_index(text), ls.encoding())
+                out.append(T.SymbolInformation(name=s.name, kind=SYMBOL_KIND.get(s.kind, T.SymbolKind.Variable),
+                                               location=T.Location(uri=uri, range=pos.lsp_range(s.name_span)),
+                                               container_name=Path(unquote(urlparse(uri).path)).name))
+                if len(out) >= 500:
+                    return out
+        return out
+
+    @ls.feature(T.TEXT_DOCUMENT_FOLDING_RANGE)
+    @safe(list)
+    def folding(ls: ConeServer, params: T.FoldingRangeParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        kinds = {"comment": T.FoldingRangeKind.Comment, "region": T.FoldingRangeKind.Region}
+        return [T.FoldingRange(start_line=s, end_line=e, kind=kinds[k]) for s, e, k in ls.host.folding_ranges(uri)]
+
+    # -- completion ------------------------------------------------------------------------
+    @ls.feature(T.TEXT_DOCUMENT_COMPLETION,
+                T.CompletionOptions(trigger_characters=[" ", "(", ":", ">", "&", "="]))
+    @safe(lambda: T.CompletionList(is_incomplete=False, items=[]))
+    def completion(ls: ConeServer, params: T.CompletionParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        items = []
+        for s in ls.host.completions(uri, ls.offset(uri, params.position)):
+            items.append(T.CompletionItem(label=s.label, kind=COMPLETION_KIND.get(s.kind), detail=s.detail or None,
+                                          insert_text=s.insert, sort_text=f"{s.sort}{s.label}"))
+        return T.CompletionList(is_incomplete=False, items=items)
+
+    # -- code actions ----------------------------------------------------------------------
+    @ls.feature(T.TEXT_DOCUMENT_CODE_ACTION,
+                T.CodeActionOptions(code_action_kinds=[T.CodeActionKind.QuickFix, T.CodeActionKind.Refactor],
+                                    resolve_provider=True))
+    @safe(list)
+    def code_action(ls: ConeServer, params: T.CodeActionParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        pos = ls.positions(uri)
+        start, end = pos.span_of(params.range)
+        only = list(params.context.only or []) if params.context else []
+
+        def wanted(kind) -> bool:
+            return not only or any(str(kind.value).startswith(str(getattr(o, "value", o))) for o in only)
+
+        out = []
+        if wanted(T.CodeActionKind.QuickFix):
+            for act in ls.host.code_fixes(uri, start, end):
+                out.append(T.CodeAction(
+                    title=act.title, kind=T.CodeActionKind.QuickFix, is_preferred=act.preferred or None,
+                    diagnostics=[ls.lsp_diagnostic(uri, act.diagnostic, pos)] if act.diagnostic else None,
+                    edit=T.WorkspaceEdit(changes={uri: [T.TextEdit(range=pos.lsp_range(e.span), new_text=e.new_text)
+                                                        for e in act.edits]})))
+        name = ls.host.pin_target(uri, start)
+        if name is not None and wanted(T.CodeActionKind.Refactor):
+            title = f"Pin the current results of '{name}' as expect lines"
+            if _supports_resolve(ls):
+                out.append(T.CodeAction(title=title, kind=T.CodeActionKind.Refactor,
+                                        data={"uri": uri, "name": name}))
+            else:
+                out.append(T.CodeAction(title=title, kind=T.CodeActionKind.Refactor,
+                                        command=T.Command(title=title, command=PIN_COMMAND, arguments=[uri, name])))
+        return out
+
+    @ls.feature(T.CODE_ACTION_RESOLVE)
+    @safe(lambda: None)
+    async def code_action_resolve(ls: ConeServer, action: T.CodeAction):
+        data = action.data or {}
+        uri, name = data.get("uri"), data.get("name")
+        if uri and name:
+            edit = await pin_edit(ls, uri, name)
+            if edit is not None:
+                action.edit = edit
+        return action
+
+    @ls.command(PIN_COMMAND)
+    @safe()
+    async def pin_command(ls, *args):
+        if len(args) < 2:
+            return None
+        uri, name = str(args[0]), str(args[1])
+        edit = await pin_edit(ls, uri, name)
+        if edit is None:
+            ls.window_show_message(T.ShowMessageParams(type=T.MessageType.Info,
+                                                       message=f"no results to pin for '{name}'"))
+            return None
+        result = await ls.workspace_apply_edit_async(T.ApplyWorkspaceEditParams(edit=edit, label="pin results"))
+        return getattr(result, "applied", None)
+
+    # -- inlay hints and semantic tokens -----------------------------------------------------
+    @ls.feature(T.TEXT_DOCUMENT_INLAY_HINT, T.InlayHintOptions(resolve_provider=False))
+    @safe(list)
+    async def inlay_hints(ls: ConeServer, params: T.InlayHintParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        key = fingerprint(ls.host.text(uri))
+        hints = ls.cache_get(("inlay", key))
+        if hints is None:
+            _, fut = ls.heavy("inlay", uri)
+            try:
+                hints = await asyncio.wait_for(asyncio.shield(fut), ls.hover_wait)
+                ls.cache_put(("inlay", key), hints)
+            except (asyncio.TimeoutError, JobCancelled, WorkerFailed):
+                hints = ls.host.inlay_hints(uri, heavy=False)
+                if not fut.done() and _supports_inlay_refresh(ls):
+                    fut.add_done_callback(lambda f: _refresh_inlays(ls, f))
+        pos = ls.positions(uri)
+        lo, hi = pos.span_of(params.range)
+        return [T.InlayHint(position=pos.lsp_position(off), label=label, padding_left=True)
+                for off, label in hints if lo <= off <= hi]
+
+    @ls.feature(T.TEXT_DOCUMENT_SEMANTIC_TOKENS_FULL, LEGEND)
+    @safe(lambda: T.SemanticTokens(data=[]))
+    def semantic_tokens(ls: ConeServer, params: T.SemanticTokensParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        pos = ls.positions(uri)
+        types = {t: i for i, t in enumerate(editor.TOKEN_TYPES)}
+        mods = {m: 1 << i for i, m in enumerate(editor.TOKEN_MODIFIERS)}
+        data: list[int] = []
+        prev_line = prev_col = 0
+        for start, end, typ, modifiers in ls.host.semantic_tokens(uri):
+            line, col = pos.position(start)
+            line2, col2 = pos.position(end)
+            if line2 != line:
+                continue
+            data += [line - prev_line, col - prev_col if line == prev_line else col, col2 - col,
+                     types[typ], sum(mods[m] for m in modifiers)]
+            prev_line, prev_col = line, col
+        return T.SemanticTokens(data=data)
+
+    # -- formatting ------------------------------------------------------------------------
+    @ls.feature(T.TEXT_DOCUMENT_FORMATTING)
+    @safe(list)
+    def formatting(ls: ConeServer, params: T.DocumentFormattingParams):
+        uri = params.text_document.uri
+        ls.ensure_text(uri)
+        old = ls.host.text(uri)
+        new = ls.host.format(uri)
+        if new == old:
+            return []
+        a = 0
+        while a < min(len(old), len(new)) and old[a] == new[a]:
+            a += 1
+        b = 0
+        while b < min(len(old), len(new)) - a and old[len(old) - 1 - b] == new[len(new) - 1 - b]:
+            b += 1
+        pos = ls.positions(uri)
+        return [T.TextEdit(range=pos.lsp_range((a, len(old) - b)), new_text=new[a:len(new) - b])]
+
+    return ls
+
+
+async def pin_edit(ls: ConeServer, uri: str, name: str):
+    ls.ensure_text(uri)
+    for _ in range(3):                      # the text may change while we compute
+        key, fut = ls.heavy("pin", uri, name, interactive=True)
+        try:
+            edit = await fut
+        except JobCancelled:
+            continue
+        except WorkerFailed:
+            return None
+        if fingerprint(ls.host.text(uri)) != key:
+            continue
+        if edit is None:
+            return None
+        pos = ls.positions(uri)
+        return T.WorkspaceEdit(changes={uri: [T.TextEdit(range=pos.lsp_range(edit.span), new_text=edit.new_text)]})
+    return None
+
+
+def _index(text: str):
+    from conelang.syntax.text import LineIndex
+    return LineIndex(text)
+
+
+def _capability(ls, *path):
+    obj = ls.client_capabilities
+    for p in path:
+        obj = getattr(obj, p, None)
+        if obj is None:
+            return None
+    return obj
+
+
+def _supports_resolve(ls) -> bool:
+    props = _capability(ls, "text_document", "code_action", "resolve_support", "properties")
+    return bool(props) and "edit" in props
+
+
+def _supports_inlay_refresh(ls) -> bool:
+    return bool(_capability(ls, "workspace", "inlay_hint", "refresh_support"))
+
+
+def _refresh_inlays(ls, fut) -> None:
+    try:
+        if not fut.cancelled() and fut.exception() is None:
+            ls.workspace_inlay_hint_refresh(None)
+    except Exception:
+        log.exception("inlay hint refresh failed")
+
+
+def _workspace_texts(ls: ConeServer, max_files: int = 2000, max_bytes: int = 1_000_000):
+    """(uri, text) of the ``.cone`` files of the workspace folders, open documents first."""
+    seen = set()
+    for uri, text in list(ls.host.texts.items()):
+        if uri.endswith(".cone"):
+            seen.add(uri)
+            yield uri, text
+    roots = []
+    try:
+        roots = [f.uri for f in ls.workspace.folders.values()]
+        if not roots and ls.workspace.root_uri:
+            roots = [ls.workspace.root_uri]
+    except Exception:
+        pass
+    count = 0
+    for root in roots:
+        base = Path(unquote(urlparse(root).path))
+        if not base.is_dir():
+            continue
+        for dirpath, dirnames, filenames in os.walk(base):
+            dirnames[:] = [d for d in dirnames if not d.startswith(".") and d not in ("node_modules", "__pycache__")]
+            for fn in filenames:
+                if not fn.endswith(".cone"):
+                    continue
+                path = Path(dirpath) / fn
+                uri = path.as_uri()
+                if uri in seen:
+                    continue
+                seen.add(uri)
+                count += 1
+                if count > max_files:
+                    return
+                try:
+                    st = path.stat()
+                    if st.st_size > max_bytes:
+                        continue
+                    cached = ls.workspace_files.get(uri)
+                    if cached and cached[0] == st.st_mtime and cached[1] == st.st_size:
+                        text = cached[2]
+                    else:
+                        text = path.read_text("utf-8", errors="replace")
+                        ls.workspace_files[uri] = (st.st_mtime, st.st_size, text)
+                except OSError:
+                    continue
+                yield uri, text
+
+
+ConeServer.workspace_texts = _workspace_texts
+
+
+def main(argv=None) -> None:
+    """Run the language server on stdio."""
+    logging.basicConfig(level=os.environ.get("CONELANG_LOG", "WARNING"), stream=sys.stderr,
+                        format="conelang-server %(levelname)s %(message)s")
+    ls = create_server()
+    try:
+        ls.start_io()
+    finally:
+        if ls.worker is not None:
+            ls.worker.stop()
