@@ -1,0 +1,255 @@
+"""SVG pictures and LaTeX output.
+
+The SVG must be well-formed XML (parsed with xml.etree) and its marked points must be the
+right ones: the lattice points and Hilbert bases are compared with brute-force enumerations
+written here (membership by solving for the coefficients with Fractions), and the exact
+cross-section of a 3-dimensional cone is checked to be an isometric picture of the section
+(distances recomputed with sympy).  The LaTeX must escape everything that comes from the
+file, keep braces and environments balanced, and, where a TeX installation exists, compile.
+"""
+from __future__ import annotations
+
+import doctest
+import itertools
+import re
+import shutil
+import subprocess
+import xml.etree.ElementTree as ET
+from fractions import Fraction
+
+import pytest
+import sympy
+
+import conelang.render.latex as latex_mod
+import conelang.render.svg as svg_mod
+from conelang.host import AnalysisHost
+
+NS = {"s": "http://www.w3.org/2000/svg"}
+
+
+def document(text: str) -> dict:
+    h = AnalysisHost()
+    h.apply_change("mem://x.cone", text)
+    return h.document("mem://x.cone", label="x.cone")
+
+
+def test_doctests():
+    assert doctest.testmod(svg_mod).failed == 0
+    assert doctest.testmod(latex_mod).failed == 0
+
+
+def in_cone2(p, u, w):
+    """p in cone(u, w) in Q^2 (u, w independent), by Cramer's rule."""
+    d = u[0] * w[1] - u[1] * w[0]
+    s = Fraction(p[0] * w[1] - p[1] * w[0], 1) / d
+    t = Fraction(u[0] * p[1] - u[1] * p[0], 1) / d
+    return s >= 0 and t >= 0
+
+
+def panel_points(root, title_prefix: str, cls: str) -> set:
+    """Exact data-points of the circles of class ``cls`` in the panel whose title starts so."""
+    for g in root.iter("{http://www.w3.org/2000/svg}g"):
+        if g.get("class") != "panel":
+            continue
+        title = g.find("s:text", NS)
+        if title is not None and title.text.startswith(title_prefix):
+            return {tuple(Fraction(x) for x in c.get("data-point").split(","))
+                    for c in g.iter("{http://www.w3.org/2000/svg}circle") if c.get("class") == cls}
+    raise AssertionError(f"no panel {title_prefix!r}")
+
+
+def brute_hilbert_basis(points):
+    """Irreducible nonzero elements among the given lattice points of a cone (exact when the
+    Hilbert basis lies in the window and sums are taken within the monoid)."""
+    pts = [p for p in points if any(p)]
+    ptset = set(pts)
+    out = set()
+    for p in pts:
+        if not any(tuple(a - b for a, b in zip(p, q)) in ptset for q in pts if q != p):
+            out.add(p)
+    return out
+
+
+PLANE = """lattice N = Z^2
+cone s in N { rays (0,1) (3,-2) }
+lattice Q = Z^2 + 1/7 (1, 3)
+cone q in Q { rays (1,0) (0,1) }
+fan P in N { rays (1,0) (0,1) (-1,-1) cones [1 2] [2 3] [3 1] }
+fan R = resolve s
+"""
+
+
+def test_svg_parses_and_lattice_points_match_brute_force():
+    doc = document(PLANE)
+    out = svg_mod.render(doc)
+    root = ET.fromstring(out)
+    assert root.tag == "{http://www.w3.org/2000/svg}svg"
+    R = doc["objects"]["s"]["lattice_window"]
+    box = list(itertools.product(range(-R, R + 1), repeat=2))
+    # σ = cone((0,1),(3,-2)) in Z^2
+    want = {tuple(map(Fraction, p)) for p in box if in_cone2(p, (0, 1), (3, -2))}
+    got = panel_points(root, "cone s", "lattice-point")
+    assert got == want
+    # the dual cone cone((1,0),(2,3)) (inner normals of σ) in Z^2
+    want_dual = {tuple(map(Fraction, p)) for p in box if in_cone2(p, (1, 0), (2, 3))}
+    assert panel_points(root, "dual of s", "lattice-point") == want_dual
+    # the ringed points are the Hilbert bases (brute force on the window, which contains them)
+    assert panel_points(root, "cone s", "hilbert-basis") == brute_hilbert_basis(want)
+    assert panel_points(root, "dual of s", "hilbert-basis") == brute_hilbert_basis(want_dual)
+    # CLS Example 1.2.? (from memory): for cone((0,1),(3,-2)) the Hilbert basis is
+    # (0,1), (1,0), (2,-1), (3,-2), along the boundary of conv(σ ∩ N ∖ 0)
+    assert panel_points(root, "cone s", "hilbert-basis") == {Q_(0, 1), Q_(1, 0), Q_(2, -1), Q_(3, -2)}
+
+
+def Q_(*xs):
+    return tuple(Fraction(x) for x in xs)
+
+
+def test_svg_lattice_points_of_an_overlattice():
+    # N = Z^2 + Z (1/7, 3/7): its points are (a/7, b/7) with b ≡ 3a (mod 7)
+    doc = document(PLANE)
+    root = ET.fromstring(svg_mod.render(doc))
+    R = doc["objects"]["q"]["lattice_window"]
+    want = {(Fraction(a, 7), Fraction(b, 7)) for a in range(0, 7 * R + 1) for b in range(0, 7 * R + 1)
+            if (b - 3 * a) % 7 == 0}
+    assert panel_points(root, "cone q", "lattice-point") == want
+    # Fulton §2.2 (from memory): the orthant in this lattice is the cyclic quotient 1/7(1,3)
+    # type, and its Hilbert basis in the window is the brute-force one
+    assert panel_points(root, "cone q", "hilbert-basis") == brute_hilbert_basis(want)
+
+
+def test_svg_fans_and_resolutions():
+    doc = document(PLANE)
+    root = ET.fromstring(svg_mod.render(doc))
+    rays = panel_points(root, "fan P", "ray-generator")
+    assert rays == {Q_(1, 0), Q_(0, 1), Q_(-1, -1)}
+    polys = [p for p in root.iter("{http://www.w3.org/2000/svg}polygon") if p.get("class") == "region"]
+    assert len(polys) >= 3
+    assert panel_points(root, "fan R", "ray-generator") == {Q_(0, 1), Q_(1, 0), Q_(2, -1), Q_(3, -2)}
+
+
+SPACE = """lattice N = Z^3
+cone sq in N { rays (0,0,1) (1,0,1) (0,1,1) (1,1,1) }
+cone w in N { rays (1,0,0) (0,1,0) (1,1,4) }
+fan R = resolve w
+fan C in N { rays (1,0,0) (0,1,0) (0,0,1) (-1,-1,-1) cones [1 2 3] [1 2 4] [1 3 4] [2 3 4] }
+"""
+
+
+def test_svg_cross_sections_are_exact_pictures():
+    doc = document(SPACE)
+    out = svg_mod.render(doc)
+    root = ET.fromstring(out)
+    o = doc["objects"]["w"]
+    assert panel_points(root, "cone w", "ray-generator") == {Q_(*r) for r in o["rays"]}
+    hb_drawn = panel_points(root, "cone w", "hilbert-basis")
+    assert hb_drawn == {Q_(*h) for h in o["hilbert_basis"]} - {Q_(*r) for r in o["rays"]}
+    # the section coordinates are an isometric picture of σ ∩ {<w, x> = 1}: compare all
+    # pairwise distances with those of the points p / <w, p> in Q^3 (sympy, exact)
+    wv = tuple(sum(Fraction(u[i]) for u in o["facets"]) for i in range(3))
+    pts = [tuple(Fraction(x) for x in p) for p in o["rays"] + o["hilbert_basis"]]
+    coords, (n1, n2) = svg_mod.section_coordinates(pts, wv)
+    plane = [(float(s) * n1, float(t) * n2) for s, t in coords]
+    for i, j in itertools.combinations(range(len(pts)), 2):
+        hi = sum(a * b for a, b in zip(wv, pts[i]))
+        hj = sum(a * b for a, b in zip(wv, pts[j]))
+        d3 = sympy.Matrix([sympy.Rational(a / hi - b / hj) for a, b in zip(pts[i], pts[j])]).norm()
+        d2 = ((plane[i][0] - plane[j][0]) ** 2 + (plane[i][1] - plane[j][1]) ** 2) ** 0.5
+        assert abs(float(d3) - d2) < 1e-9
+    # the resolution of w is drawn as a subdivided section, one polygon per cone
+    fans = [g for g in root.iter("{http://www.w3.org/2000/svg}g") if g.get("class") == "panel"
+            and g.find("s:text", NS).text.startswith("fan R")]
+    polys = [p for p in fans[0].iter("{http://www.w3.org/2000/svg}polygon")]
+    assert len(polys) == len(doc["objects"]["R"]["cones"])
+    # a complete fan has no single section: a note instead of a picture
+    assert "(e.g. a complete fan)" in out
+
+
+def test_svg_with_nothing_to_draw_is_still_svg():
+    out = svg_mod.render(document("lattice N = Z^4\ncone c in N { rays (1,0,0,0) }\n"))
+    root = ET.fromstring(out)
+    assert "nothing to draw" in out or "not drawn" in out
+    assert root.tag.endswith("svg")
+
+
+def test_svg_escapes_names_and_file():
+    doc = document("lattice N = Z^2\ncone a_b in N { rays (1,0) (1,2) }\n")
+    doc["file"] = "dir/<odd & name>.cone"
+    ET.fromstring(svg_mod.render(doc))        # would raise on unescaped < or &
+
+
+# ---------------------------------------------------------------------------------------------
+# LaTeX
+
+ALL = """lattice N_1 = Z^3
+lattice P = Z^2
+cone wedge_a in N_1 { rays (1,0,0) (0,1,0) (1,1,4) }
+cone target in P { rays (1,0) (0,1) }
+map f_1 : N_1 -> P { images (1,0) (0,1) (1,1) }
+morphism phi = f_1 : wedge_a -> target
+characters chi_2 of P { (1,0) (1,1) (1,2) }
+lattice Q = Z^2 + 1/7 (1, 3)
+cone q in Q { rays (1,0) (0,1) }
+cone s in P { rays (0,1) (7,-3) }
+fan R = resolve s
+fan F in P { rays (1,0) (0,1) (1,1) cones [1 2] [2 3] }
+expect wedge_a class_group = "Z/4"
+expect unknown_thing dim = 3
+"""
+
+
+def strip_commands(tex: str) -> str:
+    return re.sub(r"\\[A-Za-z]+|\\.", "", tex)
+
+
+def test_latex_is_balanced_and_escaped():
+    doc = document(ALL)
+    tex = latex_mod.render(doc)
+    assert tex.count("{") - tex.count(r"\{") == tex.count("}") - tex.count(r"\}")
+    for env in ("document", "itemize", "align*", "pmatrix"):
+        assert tex.count(rf"\begin{{{env}}}") == tex.count(rf"\end{{{env}}}")
+    # names with underscores are escaped in text mode
+    assert r"\texttt{wedge\_a}" in tex and r"\texttt{N\_1}" in tex and r"\texttt{chi\_2}" in tex
+    # an unescaped _ may only appear as a math subscript (z_{1}, v_{2}, ...)
+    for m in re.finditer(r"(?<!\\)_", tex):
+        assert tex[m.end()] == "{" or tex[m.start() - 1].isalpha(), tex[m.start() - 20:m.end() + 5]
+    # the diagnostic about 'unknown_thing' is escaped too
+    assert r"unknown\_thing" in tex
+    # no raw & outside tabular-like environments: every & is escaped or inside align*/pmatrix
+    outside = re.sub(r"\\begin\{(align\*|pmatrix)\}.*?\\end\{\1\}", "", tex, flags=re.S)
+    assert re.search(r"(?<!\\)&", outside) is None
+
+
+def test_latex_equations_are_the_computed_ones():
+    doc = document(ALL)
+    tex = latex_mod.render(doc)
+    var = doc["objects"]["wedge_a"]["variety"]
+    block = re.search(r"with the equations\n\\begin\{align\*\}\n(.*?)\n\\end\{align\*\}", tex, re.S).group(1)
+    rows = block.split(" \\\\\n")
+    assert len(rows) == len(var["equations"])
+    # each row is the binomial of the facts: check exponents by reparsing the LaTeX
+    for row, (plus, minus) in zip(rows, var["binomials"]):
+        lhs = row.split("&")[0]
+        left, right = lhs.split(" - ")
+        for side, exps in ((left, plus), (right, minus)):
+            got = [0] * len(exps)
+            for i, e in re.findall(r"z_\{(\d+)\}(?:\^\{(\d+)\})?", side):
+                got[int(i) - 1] += int(e or 1)
+            assert got == list(exps)
+    # pullbacks of the morphism and the continued fraction of the resolution
+    assert tex.count(r"&\mapsto") == len(doc["objects"]["phi"]["pullbacks"])
+    assert r"\dfrac{7}{3} = [3, 2, 2]" in tex
+    assert r"\mathbb{Z}/4" in tex and r"\tfrac{1}{7}" in tex
+
+
+@pytest.mark.skipif(shutil.which("pdflatex") is None, reason="no TeX installation")
+def test_latex_compiles(tmp_path):
+    tex = latex_mod.render(document(ALL + PLANE.replace("lattice N = Z^2\n", "lattice N = Z^2\n", 1)
+                                    .replace("lattice Q", "lattice Q2").replace(" in Q ", " in Q2 ")
+                                    .replace("cone q", "cone q2").replace("cone s", "cone s2")
+                                    .replace("resolve s", "resolve s2").replace("fan R", "fan R2")
+                                    .replace("fan P", "fan P3")))
+    (tmp_path / "x.tex").write_text(tex, encoding="utf-8")
+    r = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error", "x.tex"],
+                       cwd=tmp_path, capture_output=True, text=True, timeout=120)
+    assert r.returncode == 0, r.stdout[-2000:]
