@@ -178,6 +178,16 @@ def test_every_fan_diagnostic_at_its_place():
     assert prop(a, "D", "cones") == 2            # [1 2] and the unused ray [3]
 
 
+def test_expected_invalid_fan_is_reported_as_information():
+    # a file that shows an invalid fan on purpose passes the check, and still says where
+    text = "lattice N = Z^2\nfan F in N { rays (1,0) (0,1) (1,1) cones [1 2] [2 3] }\nexpect F not valid\n"
+    a, diags = analyse(text)
+    (d,) = diags
+    assert d.code == "fan-overlap" and d.severity == "information"
+    assert text[d.span[0]:d.span[1]] == "[2 3]"
+    assert prop(a, "F", "valid") is False
+
+
 def test_properties_of_an_invalid_fan_are_not_computed():
     text = ("lattice N = Z^2\nfan F in N { rays (1,0) (0,1) (1,1) cones [1 2] [2 3] }\n"
             'expect F class_group = "Z"\n')
