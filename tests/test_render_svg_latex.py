@@ -253,3 +253,36 @@ def test_latex_compiles(tmp_path):
     r = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error", "x.tex"],
                        cwd=tmp_path, capture_output=True, text=True, timeout=120)
     assert r.returncode == 0, r.stdout[-2000:]
+
+
+EDGE = """lattice N = Z^2
+lattice L = Z^1
+lattice T = Z^3
+fan E in N { rays cones }
+fan O in L { rays (1) (-1) cones [1] [2] }
+fan Z3 in T { rays (1,0,0) (0,1,0) cones [1 2] }
+cone z in N { rays }
+cone whole in N { halfspaces }
+cone line in N { rays (1,1) (-1,-1) }
+cone ray3 in T { rays (1,2,3) }
+cone flat in T { rays (1,0,0) (0,1,0) }
+cone hs3 in T { halfspaces (0,0,1) }
+fan RZ = resolve z
+fan RF = resolve flat
+"""
+
+
+def test_degenerate_objects_render(tmp_path):
+    # zero cones, the whole plane, lines, rank 1, fans without cones: no crash, valid output
+    doc = document(EDGE)
+    ET.fromstring(svg_mod.render(doc))
+    tex = latex_mod.render(doc)
+    for env in ("document", "itemize", "align*"):
+        assert tex.count(rf"\begin{{{env}}}") == tex.count(rf"\end{{{env}}}")
+    if shutil.which("pdflatex"):
+        (tmp_path / "e.tex").write_text(tex, encoding="utf-8")
+        r = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error", "e.tex"],
+                           cwd=tmp_path, capture_output=True, text=True, timeout=120)
+        assert r.returncode == 0, r.stdout[-2000:]
+    # the fan without cones is the fan {0}: the torus, with one orbit
+    assert doc["objects"]["E"]["orbits"] == [0, 0, 1]

@@ -239,9 +239,10 @@ def _fan(n: str, o: dict) -> list[str]:
     L.append(r"\begin{itemize}")
     L.append(r"\item rays: $" + r",\allowbreak\ ".join(f"v_{{{i}}} = {vector(r)}" for i, r in enumerate(o["rays"], 1))
              + "$" if o["rays"] else r"\item no rays")
-    cones = o.get("maximal_cones") or o["cones"]
-    L.append(r"\item maximal cones: $" + r",\allowbreak\ ".join(
-        r"\operatorname{cone}(" + ", ".join(f"v_{{{i}}}" for i in c) + ")" if c else r"\{0\}" for c in cones) + "$")
+    cones = o["maximal_cones"] if "maximal_cones" in o else o["cones"]
+    L.append(r"\item maximal cones: $" + (r",\allowbreak\ ".join(
+        r"\operatorname{cone}(" + ", ".join(f"v_{{{i}}}" for i in c) + ")" if c else r"\{0\}" for c in cones)
+        or r"\{0\}") + "$")
     flags = [f"{k}: {yesno(o[k])}" for k in ("valid", "complete", "smooth", "simplicial") if k in o]
     if flags:
         L.append(r"\item " + escape_text(", ".join(flags)))
