@@ -396,6 +396,8 @@ _BAD = object()
 def _expected_value(analysis, ex: A.Expect, p: Property):
     sink = analysis.sink
     v = ex.value
+    if p.type == BOOL:
+        return None                              # `expect X p` / `expect X not p`: no value to read
     if p.type in (INT, OPT_INT):
         if isinstance(v, A.StringValue) and p.type == OPT_INT and v.text == "none":
             return None
