@@ -58,6 +58,7 @@ __all__ = [
     "check_fan", "fan_invariants", "cones_by_dimension", "class_group", "picard_group",
     "cartier_basis", "self_intersections", "hirzebruch_jung", "cyclic_normal_form",
     "resolve", "crepant_partial_resolution", "gorenstein_functional", "is_unimodular",
+    "simplicial_cone",
 ]
 
 ERROR_CODES = frozenset({"fan-duplicate-ray", "fan-not-pointed", "fan-not-ray", "fan-overlap"})
@@ -171,6 +172,31 @@ class FanCheck:
         return tuple(p for p in self.problems if p.is_error)
 
 
+def simplicial_cone(gens: Sequence[Vec], d: int) -> Cone | None:
+    """The canonical :class:`Cone` spanned by ``d`` linearly independent primitive vectors of
+    Z^d, built from the inverse matrix (the facet opposite to ``g_j`` has the normal ``j``-th
+    column of ``G^{-1}``), without a double description; None if they are dependent.
+
+    >>> simplicial_cone([(1, 0), (1, 2)], 2) == cone_from_rays([(1, 0), (1, 2)], 2)
+    True
+    """
+    import flint
+    if len(gens) != d or d == 0:
+        return None
+    m = flint.fmpz_mat(d, d, [int(x) for g in gens for x in g])
+    if m.det() == 0:
+        return None
+    inv = m.inv()
+    facets = []
+    for j in range(d):
+        col = [Fraction(int(inv[i, j].p), int(inv[i, j].q)) for i in range(d)]
+        den = 1
+        for x in col:
+            den = den * x.denominator // gcd(den, x.denominator)
+        facets.append(primitive(int(x * den) for x in col))
+    return Cone(d, tuple(sorted(primitive(g) for g in gens)), (), tuple(sorted(facets)), ())
+
+
 def _carrier(c: Cone, v: Sequence[int], index_of: dict) -> tuple[int, ...]:
     """Ray indices of the smallest face of the pointed cone ``c`` containing ``v``."""
     tight = [u for u in c.facets if dot(u, v) == 0]
@@ -242,7 +268,9 @@ def check_fan(rays: Sequence[Sequence[int]], cones: Sequence[Sequence[int]], d: 
     sound = []           # cones that are pointed and whose listed rays are extremal
     for ci, c in enumerate(listed_t):
         budget.tick(len(c) * d + 1, "fan check")
-        g = cone_from_rays([rays[i] for i in c], d, budget=budget)
+        g = simplicial_cone([rays[i] for i in c], d) if len(c) == d else None
+        if g is None:
+            g = cone_from_rays([rays[i] for i in c], d, budget=budget)
         geo.append(g)
         line = a_line_in(g)
         if line is not None:

@@ -226,6 +226,15 @@ def test_class_group_when_rays_do_not_span():
 # ---------------------------------------------------------------------------------------------
 # properties on random inputs
 
+
+@SETTINGS
+@given(st.lists(st.tuples(st.integers(-4, 4), st.integers(-4, 4), st.integers(-4, 4)), min_size=3, max_size=3))
+def test_simplicial_cone_shortcut_is_canonical(gens):
+    # the inverse-matrix construction gives the same canonical cone as double description
+    assume(sympy_det(gens) != 0)
+    prim = [tuple(x // gcd(*g) for x in g) for g in gens]
+    assert fan_mod.simplicial_cone(prim, 3) == cone_from_rays(prim, 3)
+
 small = st.integers(-2, 2)
 plane_vec = st.tuples(small, small).filter(lambda v: v != (0, 0))
 
