@@ -286,3 +286,16 @@ def test_degenerate_objects_render(tmp_path):
         assert r.returncode == 0, r.stdout[-2000:]
     # the fan without cones is the fan {0}: the torus, with one orbit
     assert doc["objects"]["E"]["orbits"] == [0, 0, 1]
+
+
+@pytest.mark.parametrize("fmt", ["svg", "latex"])
+def test_cli_show_formats(tmp_path, capsys, fmt):
+    from conelang.cli import main
+    path = tmp_path / "p.cone"
+    path.write_text(PLANE, encoding="utf-8")
+    assert main(["show", str(path), "--format", fmt]) == 0
+    out = capsys.readouterr().out
+    if fmt == "svg":
+        ET.fromstring(out)
+    else:
+        assert out.rstrip().endswith(r"\end{document}")
