@@ -803,7 +803,11 @@ def _resolve_full(c: Cone, budget: Budget) -> Resolution:
         crep = None
         if m is not None:
             crep = tuple(v for v in seq if dot(m, v) == 1)
-        return Resolution(tuple(seq), cones, "smooth" if n == 1 else "Hirzebruch–Jung", cf, (n, q),
+        if n == 1:
+            return Resolution(tuple(seq), cones, "smooth", crepant_rays=crep,
+                              crepant_cones=cones if m is not None else None,
+                              crepant_smooth=True if m is not None else None)
+        return Resolution(tuple(seq), cones, "Hirzebruch–Jung", cf, (n, q),
                           crep, cones if m is not None else None, True if m is not None else None)
     crep_rays = crep_cones = crep_smooth = None
     if m is not None:

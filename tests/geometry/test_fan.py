@@ -522,6 +522,8 @@ def test_budget_is_respected():
 
 def test_smooth_and_low_dimensional_cones():
     assert resolve(cone_from_rays([(1, 0, 0), (1, 1, 0), (0, 0, 1)], 3)).method == "smooth"
+    r = resolve(cone_from_rays([(1, 0), (1, 1)], 2))
+    assert r.method == "smooth" and r.continued_fraction is None and len(r.cones) == 1
     r = resolve(cone_from_rays([(2, 3)], 2))
     assert r.rays == ((2, 3),) and r.cones == ((0,),)
     r = resolve(cone_from_rays([], 2))
