@@ -57,6 +57,10 @@ expect P2 rays = 3
 expect P2 cones = 3
 expect P2 fixed_points = 3
 expect P2 picard_rank = 1
+expect P2 valid
+expect P2 complete
+expect P2 smooth
+expect P2 simplicial
 """
 
 
@@ -119,6 +123,14 @@ def test_weighted_projective_planes_end_to_end(weights, rays, index):
     o = facts(text)["objects"]["W"]
     assert o["smooth"] is False and o["picard_index"] == index
     assert "self_intersections" not in o
+
+
+def test_failed_yes_no_expectation_on_a_fan():
+    text = ("lattice N = Z^2\nfan W in N { rays (-1,-2) (1,0) (0,1) cones [1 2] [2 3] [3 1] }\n"
+            "expect W smooth\nexpect W complete\n")
+    a, diags = analyse(text)
+    (d,) = diags
+    assert d.code == "expect-failed" and line_of(a, d) == 3 and "not smooth" in d.message
 
 
 def test_weighted_projective_plane_charts():
@@ -227,7 +239,8 @@ def test_resolution_of_cyclic_quotient_end_to_end(n, q):
     bs = hj(n, q)
     text = (f"lattice N = Z^2\ncone s in N {{ rays (0,1) ({n},{-q}) }}\nfan R = resolve s\n"
             f"expect R rays = {len(bs) + 2}\nexpect R picard_rank = {len(bs)}\n"
-            f'expect R class_group = "Z^{len(bs)}"\n'.replace('"Z^1"', '"Z"'))
+            f'expect R class_group = "Z^{len(bs)}"\n'.replace('"Z^1"', '"Z"')
+            + "expect R smooth\nexpect R not complete\nexpect R valid\n")
     a, diags = analyse(text)
     assert diags == []
     assert prop(a, "R", "smooth") and not prop(a, "R", "complete")
