@@ -4,6 +4,14 @@ To add a property: write a function ``(analysis, value) -> result`` and register
 :func:`prop`; ``expect``, the completion list in the editor and the docs read this registry.
 Results are ``bool``, ``int``, ``None`` (for "not defined", e.g. the Gorenstein index of a
 cone that is not Q-Gorenstein) or an abelian group ``(free_rank, invariant_factors)``.
+
+Incompatible morphisms.  ``morphism phi = f : σ -> τ`` with ``f(σ) ⊄ τ`` is an
+``incompatible-morphism`` error, unless the file itself states ``expect phi not compatible``:
+then the analysis keeps the value (with no flag: ``compatible`` is recomputed from the map and
+the cones), reports nothing at the definition, and the expectation holds.  Every other
+morphism property of such a value reports that it cannot be checked (there is no morphism of
+varieties), its facts carry ``"compatible": false`` and the ``violation``, and composing it is
+an error.  See the morphism section below.
 """
 from __future__ import annotations
 
