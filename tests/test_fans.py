@@ -311,3 +311,25 @@ def test_json_keys_of_the_contract():
                 "orbits", "picard_group", "class_group"):
         assert key in o
     assert o["cones"] == [[1, 2], [2, 3], [3, 1]] and o["kind"] == "fan"
+
+
+def test_crepant_partial_resolution_of_c3_mod_z3():
+    # C^3/Z_3 with weights (1,1,1): the crepant resolution is the total space of O(-3) over
+    # P^2, one exceptional divisor, Picard group Z (Reid, "Young person's guide to canonical
+    # singularities", §1 (from memory); the McKay correspondence count: one junior class).
+    doc = facts("lattice N = Z^3\ncone z3 in N { rays (1,0,1) (0,1,1) (-1,-1,1) }\n"
+                   "fan C = resolve crepant z3\nexpect C smooth\nexpect C rays = 4\n"
+                   "expect C orbits = (3, 6, 4, 1)\nexpect C picard_group = \"Z\"\n")
+    assert [d for d in doc["diagnostics"] if d["severity"] == "error"] == []
+    c = doc["objects"]["C"]
+    assert c["resolution"] == "crepant partial resolution"
+    assert sorted(c["rays"]) == [[-1, -1, 1], [0, 0, 1], [0, 1, 1], [1, 0, 1]]
+
+
+def test_orbits_expectation_compares_lists():
+    # P^2: 3 fixed points, 3 invariant curves, 1 open orbit (Fulton, §3.1 (from memory)).
+    doc = facts("lattice P = Z^2\nfan F in P { rays (1,0) (0,1) (-1,-1) cones [1 2] [2 3] [3 1] }\n"
+                   "expect F orbits = (3, 3, 1)\nexpect F orbits = (1, 3, 3)\n")
+    errors = [d for d in doc["diagnostics"] if d["severity"] == "error"]
+    assert [(d["line"], d["code"]) for d in errors] == [(4, "expect-failed")]
+    assert "computed (3, 3, 1)" in errors[0]["message"]

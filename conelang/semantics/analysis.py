@@ -663,6 +663,12 @@ class Analysis:
                        f"'{st.cone.text}' is not pointed (it contains the line through "
                        f"{fmt_vec(c.space.from_coords(line))}); only pointed cones can be resolved")
         res = self.engine.resolve(c.cone)
+        if st.crepant:
+            if res.crepant_rays is None:
+                self._fail(st.cone.span, "not-gorenstein",
+                           f"'{st.cone.text}' is not Gorenstein (no m in M takes the value 1 on every ray), "
+                           "so it has no crepant subdivision at height one; use 'resolve' for a smooth refinement")
+            return V.FanValue(c.space, res.crepant_rays, res.crepant_cones, st.cone.text, crepant=True)
         return V.FanValue(c.space, res.rays, res.cones, st.cone.text)
 
     # ------------------------------------------------------------------ expectations

@@ -236,7 +236,7 @@ def fan_facts(analysis, value: V.FanValue, heavy: bool = True) -> dict:
         if value.source_cone:
             res = _guard(errors, "resolution", lambda: _resolution_of(analysis, value))
             if res is not None:
-                out["resolution"] = res.method
+                out["resolution"] = "crepant partial resolution" if value.crepant else res.method
                 if res.continued_fraction is not None:
                     out["continued_fraction"] = list(res.continued_fraction)
                     out["cyclic_quotient"] = list(res.cyclic_quotient)

@@ -25,7 +25,7 @@ from ..syntax import ast as A
 from .diagnostics import Related
 from .engine import NotAvailable, NotPointed
 
-BOOL, INT, GROUP, OPT_INT = "yes/no", "integer", "abelian group", "integer or none"
+BOOL, INT, GROUP, OPT_INT, INTS = "yes/no", "integer", "abelian group", "integer or none", "list of integers"
 
 
 @dataclass(frozen=True)
@@ -276,6 +276,11 @@ def _fan_picard_group(a, v):
     return _fan_invariants(a, v).picard_group
 
 
+@prop("fan", "orbits", INTS, "number of torus orbits of dimension 0, 1, …, n, written (3, 3, 1)")
+def _fan_orbits(a, v):
+    return tuple(_fan_invariants(a, v).orbits)
+
+
 @prop("fan", "picard_rank", INT, "rank of the Picard group of X_Σ")
 def _fan_picard_rank(a, v):
     return _fan_invariants(a, v).picard_group[0]
@@ -320,6 +325,8 @@ def show_result(value) -> str:
         return "yes" if value else "no"
     if isinstance(value, tuple) and len(value) == 2 and isinstance(value[1], tuple):
         return f'"{group_string(value)}"'
+    if isinstance(value, tuple):
+        return "(" + ", ".join(map(str, value)) + ")"
     return str(value)
 
 
@@ -421,6 +428,11 @@ def _expected_value(analysis, ex: A.Expect, p: Property):
                        f"'{p.name}' is an abelian group written like \"Z/4\", \"Z/2 + Z/4\", \"Z^2 + Z/3\" or \"0\"")
             return _BAD
         return parse_group(v.text)
+    if p.type == INTS:
+        if not isinstance(v, A.Vector) or any(x.denominator != 1 for x in v.entries):
+            sink.error(v.span, "expect-bad-value", f"'{p.name}' is a list of integers written like (3, 3, 1)")
+            return _BAD
+        return tuple(int(x) for x in v.entries)
     return _BAD
 
 

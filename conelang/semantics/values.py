@@ -89,6 +89,7 @@ class FanValue:
     rays: tuple[Vec, ...]             # lattice coordinates, primitive
     cones: tuple[tuple[int, ...], ...]  # 0-based index lists into rays
     source_cone: str | None = None    # for ``resolve``: the cone that was resolved
+    crepant: bool = False             # ``resolve crepant``: the crepant partial resolution
 
 
 @dataclass(frozen=True)

@@ -218,10 +218,13 @@ class FanDef:
 
 @dataclass(frozen=True)
 class FanResolve:
+    """``fan R = resolve σ`` (a smooth refinement) or ``resolve crepant σ`` (the crepant partial
+    resolution of a Gorenstein cone: the subdivision at the lattice points of height one)."""
     keyword: Name
     name: Name
     cone: Name
     span: Span
+    crepant: bool = False
     kind = "fan"
 
 

@@ -22,7 +22,7 @@ from . import ast as A
 
 STATEMENT_KEYWORDS = ("lattice", "cone", "map", "morphism", "characters", "fan", "expect")
 KEYWORDS = STATEMENT_KEYWORDS + ("dual", "face", "at", "in", "of", "not", "rays", "halfspaces",
-                                 "equations", "images", "rows", "cones", "resolve", "after")
+                                 "equations", "images", "rows", "cones", "resolve", "crepant", "after")
 
 _SCAN = re.compile(r'#[^\n]*|"[^"\n]*"?|[A-Za-z_][A-Za-z0-9_]*')
 _READABLE = {
@@ -251,7 +251,8 @@ class _Builder:
                 cones.append(A.IndexList(idx, self.span(il)))
             return A.FanDef(kw, self.name(ch[1]), self.lattice(ch[3]), rays, tuple(cones), sp)
         if kind == "fan_resolve":
-            return A.FanResolve(kw, self.name(ch[1]), self.name(ch[3]), sp)
+            crepant = any(isinstance(c, Token) and c.type == "CREPANT" for c in ch)
+            return A.FanResolve(kw, self.name(ch[1]), self.name(ch[-1]), sp, crepant)
         if kind == "expect_flag":
             negated = any(isinstance(c, Token) and c.type == "NOT" for c in ch)
             names = [c for c in ch if isinstance(c, Tree)]
