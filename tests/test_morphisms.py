@@ -39,19 +39,6 @@ def only(doc, code) -> dict:
     return found[0]
 
 
-def _bool_expectations_are_checked() -> bool:
-    doc = document("lattice N = Z^2\ncone c in N { rays (1,0) (0,1) }\nexpect c not pointed\n")
-    return any(d["code"] == "expect-failed" for d in doc["diagnostics"])
-
-
-# ``expect X p`` / ``expect X not p`` for yes/no properties are checked by the shared
-# properties.check_expect; these tests only make sense once it checks them.
-needs_bool_expect = pytest.mark.xfail(
-    not _bool_expectations_are_checked(),
-    reason="properties.check_expect does not check yes/no properties yet (_expected_value "
-           "returns _BAD for BOOL)")
-
-
 # ---------------------------------------------------------------------------------------------
 # outside checks on the facts
 
@@ -164,7 +151,6 @@ expect inc rank = 2
     assert [e for e in errors(doc) if e is not d] == []
 
 
-@needs_bool_expect
 def test_map_properties_in_expectations():
     doc = document("""lattice N = Z^3
 lattice P = Z^2
@@ -263,7 +249,6 @@ expect bad not compatible
     assert "pullbacks" not in o
 
 
-@needs_bool_expect
 def test_compatible_expectations_both_ways():
     doc = document("""lattice N = Z^2
 cone s in N { rays (1,0) (1,2) }
@@ -364,7 +349,6 @@ expect blowup degree = 1
     assert not {"surjective", "injective", "open_embedding", "finite"} & set(o["kinds"])
 
 
-@needs_bool_expect
 def test_blow_up_chart_expectations():
     doc = document("""lattice N = Z^2
 cone chart in N { rays (1,0) (1,1) }
