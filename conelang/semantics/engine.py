@@ -97,13 +97,10 @@ class Engine:
         return self.cached("resolve", fan.resolve, cone)
 
     def _coordinates(self, cone):
-        """The generators z1..zr of the affine toric variety of a pointed cone (the Hilbert basis
-        of its dual, in the variety's order)."""
-        try:
-            from ..geometry import toric  # noqa: F401
-        except ImportError:
-            return self.hilbert_basis(self.dual(cone))
-        return tuple(self.variety(cone).generators)
+        """The generators z1..zr of the affine toric variety of a pointed cone: the Hilbert basis
+        of its dual, which is the order of ``toric.affine_toric_variety`` (taken directly, so
+        that pullbacks do not wait for the toric ideal)."""
+        return self.hilbert_basis(self.dual(cone))
 
     def morphism_kinds(self, value):
         """:class:`conelang.geometry.maps.MorphismKinds` of a morphism value (its map must send
