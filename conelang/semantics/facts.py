@@ -139,16 +139,8 @@ def map_facts(value: V.MapValue, st) -> dict:
     return {"kind": "map", "source": value.source.label, "target": value.target.label,
             "rows": [jvec(r) for r in value.ambient_rows],
             "lattice_matrix": [list(r) for r in value.matrix],
-            "injective": linalg.rank(value.matrix, value.source.rank) == value.source.rank,
-            "surjective": _surjective(value)}
-
-
-def _surjective(value: V.MapValue) -> bool:
-    m = value.target.rank
-    if linalg.rank(value.matrix, value.source.rank) < m:
-        return False
-    cols = linalg.transpose(value.matrix, value.source.rank)
-    return linalg.lattice_index(cols, m) == 1
+            "injective": gmaps.is_injective(value.matrix, value.source.rank),
+            "surjective": gmaps.is_surjective(value.matrix, value.source.rank)}
 
 
 def morphism_facts(analysis, value: V.MorphismValue, heavy: bool = True) -> dict:
