@@ -138,6 +138,67 @@ def cmd_show(args) -> int:
     return 1 if any(d["severity"] == "error" for d in doc["diagnostics"]) else 0
 
 
+def cmd_format(args) -> int:
+    """Rewrite files in the canonical layout (``--check``: only say which would change).
+
+    A file with a syntax error is reported and left alone.  Files are replaced atomically
+    (written to a temporary file in the same folder, then renamed over the original).
+    """
+    from .syntax.format import format_text
+    from .syntax.parser import parse
+    files = _cone_files(args.paths)
+    if not files:
+        raise UsageError("no .cone files found in " + " ".join(args.paths))
+    changed = broken = 0
+    unreadable = False
+    for path in files:
+        try:
+            text = _read(path)
+        except UsageError as exc:
+            print(f"conelang: {exc}", file=sys.stderr)
+            unreadable = True
+            continue
+        new = format_text(text)
+        if new == text:
+            if parse(text).errors:
+                broken += 1
+                print(f"{path}: not formatted: it has syntax errors (run 'conelang check {path}')", file=sys.stderr)
+            continue
+        changed += 1
+        if args.check:
+            print(f"{path}: would be reformatted")
+            continue
+        try:
+            _write_atomically(path, new)
+        except OSError as exc:
+            print(f"conelang: {path}: cannot write ({exc.strerror})", file=sys.stderr)
+            unreadable = True
+            continue
+        print(f"{path}: reformatted")
+    if unreadable:
+        return 2
+    return 1 if (args.check and changed) or broken else 0
+
+
+def _write_atomically(path: Path, text: str) -> None:
+    import tempfile
+    fd, tmp = tempfile.mkstemp(prefix="." + path.name + ".", suffix=".tmp", dir=str(path.parent))
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8", newline="") as f:
+            f.write(text)
+        try:
+            os.chmod(tmp, path.stat().st_mode & 0o7777)
+        except OSError:
+            pass
+        os.replace(tmp, path)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise
+
+
 def cmd_serve(args) -> int:
     from .server import main as serve_main
     serve_main()
@@ -168,6 +229,12 @@ def build_parser() -> argparse.ArgumentParser:
     s.add_argument("--format", choices=FORMATS, default="text")
     s.add_argument("--budget", type=_budget, default=gbudget.DEFAULT_LIMIT, help=budget_help)
     s.set_defaults(run=cmd_show)
+
+    f = sub.add_parser("format", help="rewrite .cone files in the canonical layout")
+    f.add_argument("paths", nargs="+", metavar="PATH")
+    f.add_argument("--check", action="store_true",
+                   help="change nothing; exit 1 when a file would be reformatted")
+    f.set_defaults(run=cmd_format)
 
     v = sub.add_parser("serve", help="run the language server on stdio")
     v.set_defaults(run=cmd_serve)

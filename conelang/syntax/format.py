@@ -166,15 +166,19 @@ def _drop_commas(tokens: list[_Code]) -> list[_Code]:
         if t.text == ",":
             nxt = tokens[i + 1].text if i + 1 < len(tokens) else ""
             if bracket or depth == 0 or nxt == ")":
-                if out:
+                if out and not t.leading:
                     out[-1].trailing.extend(t.trailing)
-                    carry = t.leading
-                else:
+                    carry = []
+                else:                      # keep the comments in their order
                     carry = t.leading + t.trailing
                 if i + 1 < len(tokens):
                     tokens[i + 1].leading[:0] = carry
                 continue
         out.append(t)
+    for i, t in enumerate(out[:-1]):
+        if len(t.trailing) > 1:           # comments on lines of their own after the first
+            out[i + 1].leading[:0] = t.trailing[1:]
+            del t.trailing[1:]
     return out
 
 
@@ -245,6 +249,9 @@ class _Printer:
             self.cur += (" " if _space(self.prevprev, self.prev, t) else "") + t.text
         self.prevprev, self.prev = self.prev, t
         for c in t.trailing:
+            if self.cur is None:           # a second comment after the same token
+                self.lines.append(" " * self.cont_indent + c)
+                continue
             self.cur += "  " + c
             self.newline()
 
