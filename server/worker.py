@@ -73,7 +73,9 @@ JOBS = {
     "inlay": lambda host, uri: host.inlay_hints(uri, True),
     "pin": lambda host, uri, name: host.pin_results(uri, name),
     "ping": lambda host, uri: "pong",
+    # for the tests of the worker itself
     "sleep": _job_sleep,
+    "hang": lambda host, uri, seconds: time.sleep(seconds),      # does not look at the flag
     "crash": lambda host, uri: os._exit(3),
 }
 

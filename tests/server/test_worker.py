@@ -1,0 +1,95 @@
+"""The worker process of the language server: jobs, cancellation, crashes and restarts.
+
+No assertion is about a duration: cancellation is checked by its outcome (the job ends as
+cancelled, and whether the worker had to be restarted), with generous timeouts.
+"""
+from __future__ import annotations
+
+import concurrent.futures as cf
+
+import pytest
+
+from conelang.host import AnalysisHost
+from conelang.server.worker import HeavyWorker, JobCancelled, WorkerFailed
+
+WAIT = 60
+
+
+@pytest.fixture(scope="module")
+def worker():
+    w = HeavyWorker(grace=30.0)
+    w.start()
+    assert w.submit("ping", "", "", key="").result(WAIT) == "pong"
+    yield w
+    w.stop()
+
+
+def test_results_match_the_host_in_this_process(worker):
+    # A failed expectation: cone((1,0),(1,2)) has dimension 2, so 'dim = 3' fails (its span is Q^2)
+    text = "lattice N = Z^2\ncone c in N { rays (1,0) (1,2) (2,1) (2,2) }\nexpect c dim = 3\n"
+    got = worker.submit("diagnostics", "mem://a", text, key="t1").result(WAIT)
+    host = AnalysisHost()
+    host.apply_change("mem://a", text)
+    assert got == host.diagnostics("mem://a")
+    assert {d.code for d in got} == {"expect-failed", "redundant-ray", "not-primitive"}
+    md = worker.submit("markdown", "mem://a", text, "c", key="t1").result(WAIT)
+    assert md.startswith("### cone `c` in `N`")
+
+
+def test_cancelling_a_running_job_uses_the_flag_not_a_kill(worker):
+    restarts = worker.restarts
+    fut = worker.submit("sleep", "mem://s", "", 60, key="old")
+    # wait until it runs, then say the text changed
+    for _ in range(600):
+        if worker._running is not None and worker._running.kind == "sleep":
+            break
+        cf.wait([fut], timeout=0.05)
+    assert worker.cancel_stale("mem://s", "new") == 1
+    with pytest.raises(JobCancelled):
+        fut.result(WAIT)
+    assert worker.restarts == restarts                 # the computation stopped by itself
+    assert worker.submit("ping", "", "", key="").result(WAIT) == "pong"
+
+
+def test_stale_queued_jobs_are_dropped_and_identical_jobs_shared(worker):
+    running = worker.submit("sleep", "mem://q", "", 60, key="v1")
+    queued = worker.submit("diagnostics", "mem://q", "lattice N = Z^2", key="v1")
+    again = worker.submit("diagnostics", "mem://q", "lattice N = Z^2", key="v1")
+    other = worker.submit("ping", "mem://other", "", key="x")
+    assert again is queued
+    worker.cancel_stale("mem://q", "v2")
+    for f in (running, queued):
+        with pytest.raises(JobCancelled):
+            f.result(WAIT)
+    assert other.result(WAIT) == "pong"               # other files are not affected
+
+
+def test_a_crash_is_reported_and_the_worker_restarted(worker):
+    restarts = worker.restarts
+    with pytest.raises(WorkerFailed):
+        worker.submit("crash", "mem://c", "", key="k").result(WAIT)
+    assert worker.restarts == restarts + 1
+    assert worker.submit("ping", "", "", key="").result(WAIT) == "pong"
+
+
+def test_a_job_that_ignores_cancellation_is_killed_after_the_grace_time():
+    w = HeavyWorker(grace=0.2, max_seconds=None)
+    w.start()
+    try:
+        fut = w.submit("hang", "mem://h", "", 120, key="old")
+        for _ in range(600):
+            if w._running is not None:
+                break
+            cf.wait([fut], timeout=0.05)
+        w.cancel_stale("mem://h", None)
+        with pytest.raises(JobCancelled):
+            fut.result(WAIT)
+        assert w.restarts == 1
+        assert w.submit("ping", "", "", key="").result(WAIT) == "pong"
+        w.max_seconds = 0.5
+        with pytest.raises(WorkerFailed, match="longer than"):
+            w.submit("hang", "mem://h", "", 120, key="k").result(WAIT)
+    finally:
+        w.stop()
+    with pytest.raises(WorkerFailed):
+        w.submit("ping", "", "", key="").result(WAIT)        # stopped for good
