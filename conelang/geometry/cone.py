@@ -481,15 +481,16 @@ def a_line_in(c: Cone) -> Vec | None:
 
 def redundant_generators(gens: Sequence[Sequence[int]], d: int,
                          lineality: Iterable[Sequence[int]] = (),
-                         budget: Budget | None = None) -> list[int]:
+                         budget: Budget | None = None, cone: Cone | None = None) -> list[int]:
     """Indices of the input generators that are not needed as extremal ray generators
-    (see the module docstring for the precise rule).
+    (see the module docstring for the precise rule).  Pass ``cone`` (the cone these
+    generators span, e.g. from :func:`cone_from_rays`) to avoid computing it again.
 
     >>> redundant_generators([(1, 0), (1, 1), (0, 1), (2, 0), (0, 0)], 2)
     [1, 3, 4]
     """
     gens = [tuple(g) for g in gens]
-    c = cone_from_rays(gens, d, lineality, budget)
+    c = cone if cone is not None else cone_from_rays(gens, d, lineality, budget)
 
     def mask(v):
         return frozenset(i for i, u in enumerate(c.facets) if dot(u, v) == 0)
@@ -508,9 +509,10 @@ def redundant_generators(gens: Sequence[Sequence[int]], d: int,
 
 
 def redundant_inequalities(ineqs: Sequence[Sequence[int]], eqs: Iterable[Sequence[int]], d: int,
-                           budget: Budget | None = None) -> list[int]:
+                           budget: Budget | None = None, cone: Cone | None = None) -> list[int]:
     """Indices of the inequalities that do not define facets (see the module docstring:
-    implicit equations are not reported, later duplicates are).
+    implicit equations are not reported, later duplicates are).  Pass ``cone`` (the cone
+    they cut out) to avoid computing it again.
 
     >>> redundant_inequalities([(1, 0), (0, 1), (1, 1), (2, 0)], [], 2)
     [2, 3]
@@ -518,7 +520,7 @@ def redundant_inequalities(ineqs: Sequence[Sequence[int]], eqs: Iterable[Sequenc
     []
     """
     ineqs = [tuple(a) for a in ineqs]
-    c = cone_from_inequalities(ineqs, eqs, d, budget)
+    c = cone if cone is not None else cone_from_inequalities(ineqs, eqs, d, budget)
     facet_sets = set(facet_ray_incidence(c))
     seen = set()
     out = []
