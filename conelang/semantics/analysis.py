@@ -413,25 +413,32 @@ class Analysis:
                     self.sink.warning(node.span, "not-primitive",
                                       f"the ray {node.source()} is not primitive; the primitive vector on this ray is {pv}",
                                       fixes=(Fix(f"replace by {pv}", node.span, pv),))
-            for i in self.engine.cached("redundant_generators", gcone.redundant_generators, tuple(coords), d):
-                node = rays[i][0]
+            cone = self.engine.cached("cone_from_rays", gcone.cone_from_rays, tuple(coords), d)
+            for i in gcone.redundant_generators(coords, d, cone=cone):
+                node, x = rays[i]
+                if cone.lineality and all(linalg.dot(u, x) == 0 for u in cone.facets):
+                    self.sink.warning(node.span, "ray-in-lineality",
+                                      f"the ray {node.source()} lies in the lineality space of cone '{st.name.text}' "
+                                      f"(the cone contains the whole line through it), so it is not an extremal ray")
+                    continue
                 self.sink.warning(node.span, "redundant-ray",
                                   f"the ray {node.source()} is not extremal: it is redundant in cone '{st.name.text}'",
                                   unnecessary=True,
                                   fixes=(Fix(f"remove the redundant ray {node.source()}", node.span, ""),))
-            return V.ConeValue(space, self.engine.cached("cone_from_rays", gcone.cone_from_rays, tuple(coords), d))
+            return V.ConeValue(space, cone)
         dual_space = space.dual()
         ineqs = self._vectors(seen["halfspaces"].vectors, dual_space, "inequality") if "halfspaces" in seen else []
         eqs = self._vectors(seen["equations"].vectors, dual_space, "equation") if "equations" in seen else []
         ic = [x for _, x in ineqs]
         ec = [x for _, x in eqs]
-        for i in self.engine.cached("redundant_inequalities", gcone.redundant_inequalities, tuple(ic), tuple(ec), d):
+        cone = self.engine.cached("cone_from_inequalities", gcone.cone_from_inequalities, tuple(ic), tuple(ec), d)
+        for i in gcone.redundant_inequalities(ic, ec, d, cone=cone):
             node = ineqs[i][0]
             self.sink.warning(node.span, "redundant-inequality",
                               f"the inequality {node.source()} ≥ 0 is redundant: it does not cut out a facet",
                               unnecessary=True,
                               fixes=(Fix(f"remove the redundant inequality {node.source()}", node.span, ""),))
-        return V.ConeValue(space, self.engine.cached("cone_from_inequalities", gcone.cone_from_inequalities, tuple(ic), tuple(ec), d))
+        return V.ConeValue(space, cone)
 
     def _cone_expr(self, expr) -> V.ConeValue:
         if isinstance(expr, A.ConeRef):
