@@ -37,6 +37,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from functools import cache
 from itertools import product
+from math import prod
 from typing import Sequence
 
 from . import linalg
@@ -201,7 +202,8 @@ def triangulate(c: Cone, budget: Budget | None = None) -> tuple[tuple[int, ...],
     return tuple(sorted(tri(frozenset(range(n)), k)))
 
 
-def parallelepiped_points(gens: Sequence[Vec]) -> tuple[Vec, ...]:
+def parallelepiped_points(gens: Sequence[Vec], budget: Budget | None = None,
+                          what: str = "parallelepiped") -> tuple[Vec, ...]:
     """The lattice points ``Σ λ_i g_i`` with ``0 <= λ_i < 1`` for linearly independent
     generators spanning ``Q^k`` (there are ``|det|`` of them, including 0), via the Smith
     normal form of the generator matrix.
@@ -221,7 +223,10 @@ def parallelepiped_points(gens: Sequence[Vec]) -> tuple[Vec, ...]:
     # lambda * delta = Σ c_i (delta / d_i) U_i  (mod delta)
     steps = [tuple(x * (delta // ds[i]) for x in U[i]) for i in nontriv]
     out = []
-    for cs in product(*[range(ds[i]) for i in nontriv]):
+    cost = 2 * k * k
+    for count, cs in enumerate(product(*[range(ds[i]) for i in nontriv])):
+        if budget is not None and not count % 1024:
+            budget.tick(1024 * cost, what, f"about {abs(prod(ds))} lattice points to enumerate")
         lam = [0] * k
         for ci, st in zip(cs, steps):
             if ci:
@@ -273,12 +278,15 @@ def _hilbert_basis_full(c: Cone, budget: Budget, what: str) -> list[Vec]:
     gens = [[rays[i] for i in s] for s in simplices]
     dets = [abs(linalg.det(g)) for g in gens]
     total = sum(dets)
-    budget.check(total * k, what, f"about {total} lattice points to enumerate")
+    nf = len(c.facets)
+    # per point: the Smith-form coordinates (2 k^2) and the facet values (nf k)
+    budget.check(total * (2 * k * k + nf * k), what,
+                 f"about {total} lattice points to enumerate")
     cand = set(rays)
     for g, dt in zip(gens, dets):
         if dt > 1:
-            budget.tick(dt * k, what, f"about {total} lattice points to enumerate")
-            cand.update(p for p in parallelepiped_points(g) if any(p))
+            cand.update(p for p in parallelepiped_points(g, budget, what) if any(p))
+    budget.tick(len(cand) * nf * k, what, f"{len(cand)} candidates")
     facets = c.facets
     fvals = {x: tuple(dot(u, x) for u in facets) for x in cand}
     w = grading(c)
@@ -289,7 +297,7 @@ def _hilbert_basis_full(c: Cone, budget: Budget, what: str) -> list[Vec]:
     bvals: list[tuple[int, ...]] = []
     for deg in sorted(by_deg):
         level = by_deg[deg]
-        budget.tick(len(level) * (len(basis) + 1), what, f"{len(cand)} candidates")
+        budget.tick(len(level) * (len(basis) + 1) * nf, what, f"{len(cand)} candidates")
         new = []
         for x in level:
             fx = fvals[x]

@@ -337,7 +337,8 @@ def _split(x: Vec) -> tuple[Vec, Vec]:
     return tuple(max(v, 0) for v in x), tuple(max(-v, 0) for v in x)
 
 
-def _unimodular_coordinates(basis: Sequence[Vec], r: int) -> tuple[list[Vec], list[int]] | None:
+def _unimodular_coordinates(basis: Sequence[Vec], r: int, coord_order: Sequence[int] | None = None
+                            ) -> tuple[list[Vec], list[int]] | None:
     """Try to find k = len(basis) coordinates τ on which the lattice projects isomorphically
     onto Z^τ, and the lattice basis B' that restricts to the identity on τ.  Greedy (pick a
     coordinate whose values on the remaining basis vectors have gcd 1, then make it a unit
@@ -350,7 +351,7 @@ def _unimodular_coordinates(basis: Sequence[Vec], r: int) -> tuple[list[Vec], li
     used = set()
     while remaining:
         best = None
-        for i in range(r):
+        for i in (coord_order if coord_order is not None else range(r)):
             if i in used:
                 continue
             vals = [cols[c][i] for c in remaining]
@@ -407,7 +408,17 @@ def _saturate_graded(basis: Sequence[Vec], weights: Sequence[int], budget: Budge
     outside τ need to be saturated (rank A of them instead of r).
     """
     r = len(weights)
-    found = _unimodular_coordinates(basis, r)
+    # try the greedy choice of τ from every starting coordinate; keep the basis of least
+    # total degree (it makes the Gröbner basis computations much cheaper)
+    found = None
+    best = None
+    for start in range(r):
+        f = _unimodular_coordinates(basis, r, list(range(start, r)) + list(range(start)))
+        if f is None:
+            continue
+        score = sum(max(dot(weights, _split(x)[0]), dot(weights, _split(x)[1])) for x in f[0])
+        if best is None or score < best:
+            best, found = score, f
     if found is not None:
         basis, tau = found
         order = [i for i in range(r) if i not in set(tau)]
