@@ -240,3 +240,53 @@ def test_budget_names_the_computation():
     with pytest.raises(BudgetExceeded) as e:
         hilbert_basis(c, Budget(limit=500))
     assert "Hilbert basis" in str(e.value) and "lattice points" in str(e.value)
+
+
+# ---------------------------------------------------------------------------------------------
+# large indices (the vectorised enumeration)
+
+
+def _hirzebruch_jung(p, q):
+    out = []
+    while q:
+        a = -(-p // q)
+        out.append(a)
+        p, q = q, a * q - p
+    return out
+
+
+@pytest.mark.parametrize("n,q", [(10007, 3), (6000, 1001), (7919, 7918), (9973, 17)])
+def test_two_dimensional_large_index(n, q):
+    # σ = cone((0,1),(n,-q)): the Hilbert basis consists of the two rays and the rays of the
+    # minimal resolution, one per entry of the Hirzebruch–Jung continued fraction of n/q,
+    # and consecutive elements (by angle) form lattice bases (Fulton, Introduction to Toric
+    # Varieties §2.6; CLS §10.2 — from memory)
+    c = cone_from_rays([(0, 1), (n, -q)], 2)
+    t = time.perf_counter()
+    hb = hilbert_basis(c)
+    assert time.perf_counter() - t < 5
+    assert len(hb) == len(_hirzebruch_jung(n, q)) + 2
+    by_angle = sorted(hb, key=lambda v: Fraction(v[1], v[0]) if v[0] else Fraction(10 ** 9))
+    for a, b in zip(by_angle, by_angle[1:]):
+        assert abs(a[0] * b[1] - a[1] * b[0]) == 1
+
+
+def test_vectorised_and_interpreted_paths_agree(monkeypatch):
+    # the same cone through both enumeration paths
+    import conelang.geometry.monoid as M
+    c = dual(cone_from_rays([(2, -1, 3), (3, 2, 3), (-3, 3, 1), (2, -3, 1), (0, 0, 1)], 3))
+    monkeypatch.setattr(M, "_NUMPY_FROM", 1)
+    fast = hilbert_basis(c)
+    monkeypatch.setattr(M, "_NUMPY_FROM", 10 ** 12)
+    assert hilbert_basis(c) == fast
+
+
+@settings(max_examples=30, deadline=None)
+@given(st.integers(2, 3).flatmap(lambda d: pointed_full_generators(d, 5)))
+def test_vectorised_path_vs_brute_force(gens):
+    from unittest import mock
+    import conelang.geometry.monoid as M
+    c = cone_from_rays(gens, len(gens[0]))
+    with mock.patch.object(M, "_NUMPY_FROM", 1):
+        hb = hilbert_basis(c)
+    assert hb == hilbert_basis_bruteforce(c, _caratheodory_bound(c))
