@@ -147,8 +147,9 @@ class ConeServer(LanguageServer):
         self.start_worker()
         text = self.host.text(uri)
         key = fingerprint(text)
-        fut = self.worker.submit(kind, uri, text, *args, key=key, interactive=interactive)
-        return key, asyncio.wrap_future(fut)
+        fut = asyncio.wrap_future(self.worker.submit(kind, uri, text, *args, key=key, interactive=interactive))
+        fut.add_done_callback(_consume)       # a result nobody waits for any more is not an error
+        return key, fut
 
     def ensure_text(self, uri: str) -> None:
         """Make sure the host has the text of ``uri`` (opened documents always do; a request
@@ -199,7 +200,7 @@ class ConeServer(LanguageServer):
                 full = await asyncio.wait_for(asyncio.shield(fut), self.diagnostics_wait)
             except asyncio.TimeoutError:
                 self.publish(uri, cheap + self.carried_over(uri, cheap))
-                full = await fut
+                full = await asyncio.shield(fut)
             if self.host.text(uri) != text:
                 return
             self.cache_put(("diagnostics", key), full)
@@ -241,6 +242,11 @@ class ConeServer(LanguageServer):
                     out.append(_shifted(d, shift))
                     break
         return out
+
+
+def _consume(fut) -> None:
+    if not fut.cancelled():
+        fut.exception()
 
 
 def _shifted(d, shift: int):
@@ -600,7 +606,7 @@ async def pin_edit(ls: ConeServer, uri: str, name: str):
     for _ in range(3):                      # the text may change while we compute
         key, fut = ls.heavy("pin", uri, name, interactive=True)
         try:
-            edit = await fut
+            edit = await asyncio.shield(fut)
         except JobCancelled:
             continue
         except WorkerFailed:

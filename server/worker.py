@@ -215,7 +215,8 @@ class HeavyWorker:
                 f.set_exception(WorkerFailed("the server is shutting down"))
                 return f
             for job in ([self._running] if self._running else []) + list(self._queue):
-                if (job.kind, job.uri, job.key, job.args) == (kind, uri, key, args) and job.cancelled_at is None:
+                if ((job.kind, job.uri, job.key, job.args) == (kind, uri, key, args) and job.cancelled_at is None
+                        and not job.future.done()):
                     if interactive and job is not self._running:
                         self._queue.remove(job)
                         self._queue.appendleft(job)
@@ -257,6 +258,8 @@ class HeavyWorker:
                 if self._stopped:
                     return
                 job = self._queue.popleft()
+                if job.future.done():          # nobody waits for it any more
+                    continue
                 self._running = job
             try:
                 status, value = self._run(job)
