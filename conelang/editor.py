@@ -313,8 +313,8 @@ def completions(a, offset: int) -> list[Suggestion]:
         elif kw == "fan" and len(rest) >= 2 and rest[1] == "=":
             if last == "=":
                 out = _kw("resolve", sort="0")
-            elif last == "resolve":
-                out = _names(a, "cone")
+            elif last in ("resolve", "crepant"):
+                out = _names(a, "cone") + (_kw("crepant", sort="1") if last == "resolve" else [])
         elif not inside and "{" not in rest and last in ("in", "of", ":", "->", "→", "dual", "("):
             out = _names(a, "lattice") + _kw("dual")
             if last in ("in", "of", ":", "->", "→"):
@@ -387,8 +387,15 @@ def code_fixes(a, start: int, end: int) -> list[Action]:
 
 
 def pin_target(a, offset: int) -> str | None:
-    """The definition whose results 'pin' would write at ``offset``: the cone or characters
-    under the cursor (its definition, a use, or an ``expect`` about it)."""
+    """The definition whose results 'pin' would write at ``offset``: the object under the
+    cursor (its definition, a use, or an ``expect`` about it) when ``expect`` knows
+    properties of its kind.
+
+    >>> from conelang.semantics.analysis import Analysis
+    >>> a = Analysis("lattice N = Z^2\\ncone c in N { rays (1,0) }\\nexpect c pointed")
+    >>> pin_target(a, 9), pin_target(a, 22), pin_target(a, len(a.text) - 2)
+    (None, 'c', 'c')
+    """
     hit = a.node_at(offset)
     name = hit[1] if hit is not None else None
     if name is None:
@@ -397,7 +404,8 @@ def pin_target(a, offset: int) -> str | None:
             name = st.subject.text
         elif st is not None:
             name = st.name.text
-    if name is None or a.defs.get(name) is None or a.kind_of(name) not in ("cone", "characters"):
+    from .semantics.properties import properties_for
+    if name is None or a.defs.get(name) is None or not properties_for(a.kind_of(name)):
         return None
     return name
 
@@ -414,37 +422,32 @@ def pin_lines(a, name: str) -> list[str]:
     >>> pin_lines(a, "c")[:4]
     ['expect c pointed', 'expect c full', 'expect c simplicial', 'expect c rays = 2']
     """
-    from .semantics.properties import BOOL, GROUP, REGISTRY, show_result
+    from .semantics.properties import BOOL, properties_for, show_result
     kind = a.kind_of(name)
     value = a.value(name)
     if value is None:
         return []
     have = {ex.prop.text for ex in a.expects if ex.subject.text == name and ex.prop is not None}
+    rank = {p: i for i, p in enumerate(PIN_ORDER)}
+    props = sorted(properties_for(kind), key=lambda p: rank.get(p.name, len(rank)))
     lines = []
     results = {}
-    for pname in PIN_ORDER:
-        p = REGISTRY.get((kind, pname))
-        if p is None or pname in have:
+    for p in props:
+        if p.name in have:
             continue
         try:
             got = p.compute(a, value)
         except Cancelled:
             raise
-        except (NotPointed, BudgetExceeded, NotAvailable, ImportError, ArithmeticError, ValueError):
+        except Exception:          # not defined here (not pointed, over budget, not available)
             continue
-        except Exception:
-            continue
-        results[pname] = got
+        results[p.name] = got
         if p.type == BOOL:
-            if pname == "qgorenstein" and results.get("gorenstein"):
+            if p.name == "qgorenstein" and results.get("gorenstein"):
                 continue     # implied by gorenstein
-            lines.append(f"expect {name} {'' if got else 'not '}{pname}")
-        elif got is None:
-            continue          # e.g. the index of a cone that is not Q-Gorenstein
-        elif p.type == GROUP:
-            lines.append(f"expect {name} {pname} = {show_result(got)}")
-        else:
-            lines.append(f"expect {name} {pname} = {got}")
+            lines.append(f"expect {name} {'' if got else 'not '}{p.name}")
+        elif got is not None:          # e.g. no index for a cone that is not Q-Gorenstein
+            lines.append(f"expect {name} {p.name} = {show_result(got)}")
     return lines
 
 

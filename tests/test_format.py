@@ -130,7 +130,7 @@ def statements(draw):
         return ["characters", name, "of"] + draw(lattice_refs()) + ["{"] + draw(vector_list()) + ["}"]
     if kind == 7:
         if draw(st.booleans()):
-            return ["fan", name, "=", "resolve", draw(NAMES)]
+            return ["fan", name, "=", "resolve"] + (["crepant"] if draw(st.booleans()) else []) + [draw(NAMES)]
         out = ["fan", name, "in"] + draw(lattice_refs()) + ["{", "rays"] + draw(vector_list()) + ["cones"]
         for _ in range(draw(st.integers(0, 4))):
             out.append("[")
@@ -241,6 +241,7 @@ morphism h = g∘f
 characters chi of P{(1,0)(1,1)(1,2)}
 fan F in P{rays (1,0) (0,1) (-1,-1) cones [1,2] [2 3][3 1]}
 fan R=resolve wedge
+fan C = resolve  crepant   wedge
 
 
 
@@ -262,6 +263,7 @@ morphism h = g ∘ f
 characters chi of P { (1, 0) (1, 1) (1, 2) }
 fan F in P { rays (1, 0) (0, 1) (-1, -1) cones [1 2] [2 3] [3 1] }
 fan R = resolve wedge
+fan C = resolve crepant wedge
 
 expect wedge class_group = "Z/4"
 expect wv == dual wedge

@@ -32,9 +32,10 @@ from dataclasses import dataclass, field
 WIDTH = 100
 """Longest line a ``{ }`` statement may keep on one line (and the wrapping width)."""
 
-STATEMENT_KEYWORDS = ("lattice", "cone", "map", "morphism", "characters", "fan", "expect")
-KEYWORDS = frozenset(STATEMENT_KEYWORDS + ("dual", "face", "at", "in", "of", "not", "rays", "halfspaces",
-                                           "equations", "images", "rows", "cones", "resolve", "after"))
+from .parser import KEYWORDS as _PARSER_KEYWORDS
+from .parser import STATEMENT_KEYWORDS
+
+KEYWORDS = frozenset(_PARSER_KEYWORDS)
 SECTION_KEYWORDS = frozenset(("rays", "halfspaces", "equations", "images", "rows", "cones"))
 
 _TOKEN = re.compile(r"""

@@ -210,6 +210,7 @@ async def test_completion_by_context(client: LanguageClient):
              ("morphism m2 = f : ", {"w", "t"}, {"f", "N"}),
              ("map g : N -> ", {"N", "P"}, {"w"}),
              ("cone y in N { ", {"rays", "halfspaces", "equations"}, {"w"}),
+             ("fan R = resolve ", {"w", "t", "crepant"}, {"f", "N"}),
              ("", {"cone", "lattice", "expect", "map"}, set())]
     version = 1
     open_doc(client, uri, base)
