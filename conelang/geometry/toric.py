@@ -48,6 +48,7 @@ sort order.  The affine toric varieties of non-full-dimensional cones avoid this
 from __future__ import annotations
 
 import heapq
+from bisect import bisect_left
 import math
 from operator import add, le, sub
 from dataclasses import dataclass
@@ -179,8 +180,9 @@ class _GB:
                 i = 0
                 continue
             i += 1
-        if steps:
-            self.budget.tick(steps, WHAT)
+        # each step scans the leading terms: count them (a unit is one elementary operation)
+        self.budget.tick((steps + 1) * (n // 4 + 1), WHAT,
+                         f"{n} binomials in a Gröbner basis")
         return a
 
     def make(self, a: Vec, b: Vec):
@@ -204,7 +206,8 @@ class _GB:
             if p is None:
                 continue
             i, j, L, _ = p
-            self.budget.tick(1, WHAT, f"{len(self.lead)} binomials in a Gröbner basis")
+            self.budget.tick(len(self.lead) // 2 + 1, WHAT,
+                             f"{len(self.lead)} binomials in a Gröbner basis")
             m1 = _sub_add(L, self.lead[i], self.trail[i])
             m2 = _sub_add(L, self.lead[j], self.trail[j])
             self._add_reduced((m1, m2))
@@ -480,22 +483,35 @@ def _sort_key(b: Binomial):
     return (max(sum(p), sum(m)), tuple(-x for x in p), tuple(-x for x in m))
 
 
-def _fiber_components(start: Vec, moves: list[tuple[Vec, Vec]], budget: Budget
+def _directed(moves: list[tuple[Vec, Vec]]) -> list[tuple[Vec, Vec, int]]:
+    """Both directions of each move, with the support mask of the term to be divided."""
+    out = []
+    for a, b in moves:
+        out.append((a, b, _mask(a)))
+        out.append((b, a, _mask(b)))
+    return out
+
+
+def _neighbours(p: Vec, moves: list[tuple[Vec, Vec, int]]):
+    mp = _mask(p)
+    for x, y, mx in moves:
+        if not (mx & ~mp) and _divides(x, p):
+            yield _sub_add(p, x, y)
+
+
+def _fiber_components(start: Vec, moves: list[tuple[Vec, Vec, int]], budget: Budget
                       ) -> list[list[Vec]]:
-    """The fiber of ``start`` (connected by the Markov basis ``moves``) split into the
-    components of the graph 'share a variable'."""
+    """The fiber of ``start`` (connected by the Markov basis ``moves``, see
+    :func:`_directed`) split into the components of the graph 'share a variable'."""
     seen = {start}
     stack = [start]
     while stack:
         u = stack.pop()
-        budget.tick(len(moves), WHAT, f"{len(seen)} monomials in one degree")
-        for a, b in moves:
-            for x, y in ((a, b), (b, a)):
-                if _divides(x, u):
-                    v = _sub_add(u, x, y)
-                    if v not in seen:
-                        seen.add(v)
-                        stack.append(v)
+        budget.tick(len(moves) // 8 + 1, WHAT, f"{len(seen)} monomials in one degree")
+        for v in _neighbours(u, moves):
+            if v not in seen:
+                seen.add(v)
+                stack.append(v)
     pts = sorted(seen, reverse=True)
     r = len(start)
     parent = list(range(len(pts)))
@@ -522,18 +538,55 @@ def _fiber_components(start: Vec, moves: list[tuple[Vec, Vec]], budget: Budget
     return list(comps.values())
 
 
-def _minimal_graded(gens: list[Vec], gb: list[tuple[Vec, Vec]], budget: Budget) -> list[Binomial]:
-    degree = lambda u: tuple(sum(c * a[j] for c, a in zip(u, gens)) for j in range(len(gens[0])))
-    done = set()
-    out = []
+def _connected_below(u: Vec, v: Vec, moves: list[tuple[Vec, Vec, int]], budget: Budget) -> bool:
+    """Whether ``u`` and ``v`` (same degree) are joined by ``moves`` (all of smaller degree):
+    a bidirectional breadth-first search that stops when the two searches meet or one side
+    runs out (then its component is complete and does not contain the other point)."""
+    seen = [{u: None}, {v: None}]
+    frontier = [[u], [v]]
+    side = 0
+    while frontier[0] and frontier[1]:
+        side = 0 if len(frontier[0]) <= len(frontier[1]) else 1
+        mine, other = seen[side], seen[1 - side]
+        nxt = []
+        budget.tick(len(frontier[side]) * (len(moves) // 8 + 1), WHAT,
+                    f"{len(mine) + len(other)} monomials in one degree")
+        for p in frontier[side]:
+            for q in _neighbours(p, moves):
+                if q in other:
+                    return True
+                if q not in mine:
+                    mine[q] = None
+                    nxt.append(q)
+        frontier[side] = nxt
+    return False
+
+
+def _minimal_graded(gens: list[Vec], gb: list[tuple[Vec, Vec]], weights: Sequence[int],
+                    budget: Budget) -> list[Binomial]:
+    """Minimal generators from a generating set ``gb`` (pure binomials) of a positively
+    graded toric ideal.  In a degree β, ``I_β`` is spanned by the elements of ``gb`` of degree
+    β modulo ``(m I)_β``; so β carries minimal generators iff one of them joins two points
+    that the moves of smaller degree do not connect.  Only then is the whole fiber explored,
+    to take the canonical representatives of its components."""
+    n = len(gens[0])
+    degree = lambda u: tuple(sum(c * a[j] for c, a in zip(u, gens)) for j in range(n))
+    wdeg = lambda u: dot(weights, u)
+    by_beta: dict[Vec, list] = {}
     for a, b in gb:
-        beta = degree(a)
-        if beta in done:
+        by_beta.setdefault(degree(a), []).append((a, b))
+    order = sorted(by_beta, key=lambda beta: (wdeg(by_beta[beta][0][0]), beta))
+    by_weight = sorted(gb, key=lambda g: wdeg(g[0]))
+    weights_sorted = [wdeg(g[0]) for g in by_weight]
+    all_moves = _directed(by_weight)
+    out = []
+    for beta in order:
+        elems = by_beta[beta]
+        w = wdeg(elems[0][0])
+        lower = all_moves[:2 * bisect_left(weights_sorted, w)]
+        if all(_connected_below(a, b, lower, budget) for a, b in elems):
             continue
-        done.add(beta)
-        comps = _fiber_components(a, gb, budget)
-        if len(comps) < 2:
-            continue
+        comps = _fiber_components(elems[0][0], all_moves, budget)
         reps = sorted((max(c) for c in comps), reverse=True)
         for x, y in zip(reps, reps[1:]):
             out.append((x, y))
@@ -587,7 +640,7 @@ def toric_ideal(gens: Sequence[Sequence[int]], budget: Budget | None = None
         weights = [dot(w, a) for a in sub]
         assert all(x > 0 for x in weights)
         gb = _saturate_graded(basis, weights, budget)
-        mins = _minimal_graded(sub, gb, budget)
+        mins = _minimal_graded(sub, gb, weights, budget)
     else:
         gb = _eliminate(basis, rs, budget)
         cand = sorted(gb, key=_sort_key)
