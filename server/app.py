@@ -341,6 +341,7 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
             task.cancel()
         if ls.worker is not None:
             ls.worker.cancel_stale(uri, None)
+            ls.worker.submit("forget", uri, "", key="")
         ls.host.remove(uri)
         ls.versions.pop(uri, None)
         ls.last_full.pop(uri, None)

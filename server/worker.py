@@ -73,6 +73,7 @@ JOBS = {
     "inlay": lambda host, uri: host.inlay_hints(uri, True),
     "pin": lambda host, uri, name: host.pin_results(uri, name),
     "ping": lambda host, uri: "pong",
+    "forget": lambda host, uri: host.remove(uri),
     # for the tests of the worker itself
     "sleep": _job_sleep,
     "hang": lambda host, uri, seconds: time.sleep(seconds),      # does not look at the flag

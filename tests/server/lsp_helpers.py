@@ -66,6 +66,18 @@ async def wait_for(predicate, timeout: float = TIMEOUT, what: str = "condition")
         await asyncio.sleep(0.05)
 
 
+async def poll(ask, done, what: str, timeout: float = TIMEOUT):
+    """Ask again (``await ask()``) until ``done(answer)``; return that answer."""
+    end = time.monotonic() + timeout
+    while True:
+        answer = await ask()
+        if done(answer):
+            return answer
+        if time.monotonic() > end:
+            raise AssertionError(f"timed out waiting for {what}; last answer: {answer!r}")
+        await asyncio.sleep(0.1)
+
+
 async def diagnostics_where(client: LanguageClient, uri: str, predicate, what="diagnostics"):
     """Wait until the latest diagnostics published for ``uri`` satisfy ``predicate``."""
     def check():

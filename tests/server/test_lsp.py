@@ -16,7 +16,7 @@ from pygls.exceptions import JsonRpcException
 
 from conelang.syntax.format import format_text
 
-from lsp_helpers import (SERVER, diagnostics_where, initialize, open_doc, pos, raw_request, raw_write,
+from lsp_helpers import (SERVER, diagnostics_where, initialize, open_doc, poll, pos, raw_request, raw_write,
                          replace_doc)
 
 pytestmark = pytest.mark.asyncio(loop_scope="module")
@@ -29,7 +29,8 @@ async def client(lsp_client: LanguageClient, tmp_path_factory):
     (root / "sub").mkdir()
     (root / "sub" / "b.cone").write_text("lattice M = Z^3\ncone wedge_b in M { rays (1,0,0) (0,1,0) (1,1,4) }\n")
     lsp_client.root = root
-    await initialize(lsp_client, root, debounce=0.05)
+    # a short hover wait makes "computing…" certain for a heavy cone, however fast the machine
+    await initialize(lsp_client, root, debounce=0.05, hoverWait=0.05)
     yield
     await lsp_client.shutdown_session()
 
@@ -116,11 +117,7 @@ async def test_hover_cone_has_generators_equations_and_dual(client: LanguageClie
             text_document=T.TextDocumentIdentifier(uri=uri), position=pos(text, "a1", 1, 1)))
         return h.contents.value
 
-    value = await hover_text()
-    for _ in range(100):
-        if "computing" not in value:
-            break
-        value = await hover_text()
+    value = await poll(hover_text, lambda v: "computing" not in v, "the full hover")
     # U = V(xz - y^2) ⊂ C^3 (source at the top of this file): 3 generators, one quadric
     assert "C^3" in value
     assert re.search(r"z\d\^2", value) and re.search(r"z\d\*z\d", value)
@@ -339,11 +336,7 @@ async def test_inlay_hints_and_semantic_tokens(client: LanguageClient):
         hints = await client.text_document_inlay_hint_async(T.InlayHintParams(text_document=doc, range=rng))
         return [(h.position.line, h.label) for h in hints]
 
-    got = await labels()
-    for _ in range(100):
-        if "generators" in got[0][1]:
-            break
-        got = await labels()
+    got = await poll(labels, lambda g: "generators" in g[0][1], "the full inlay hints")  # cheap ones come first
     # A_1: 2-dimensional, simplicial, 3 generators, Gorenstein (source at the top of this file)
     assert got[0][0] == 1 and got[0][1].startswith("dim 2 · pointed · simplicial · 3 generators")
     toks = await client.text_document_semantic_tokens_full_async(T.SemanticTokensParams(text_document=doc))
