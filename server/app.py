@@ -194,8 +194,8 @@ class ConeServer(LanguageServer):
             if cached is not None:
                 self.publish(uri, cached)
                 return
+            _, fut = self.heavy("diagnostics", uri)      # the worker starts while we do the cheap part
             cheap = self.host.diagnostics(uri, expectations=False)
-            _, fut = self.heavy("diagnostics", uri)
             try:
                 full = await asyncio.wait_for(asyncio.shield(fut), self.diagnostics_wait)
             except asyncio.TimeoutError:

@@ -93,6 +93,14 @@ async def test_change_updates_diagnostics(client: LanguageClient):
     assert diags[0].range.start.line == 1
 
 
+async def test_closing_a_document_clears_its_diagnostics(client: LanguageClient):
+    uri = (client.root / "close.cone").as_uri()
+    open_doc(client, uri, "lattice N = Z^2\ncone c in N { rays (2,0) }\n")
+    await diagnostics_where(client, uri, lambda ds: len(ds) == 1)
+    client.text_document_did_close(T.DidCloseTextDocumentParams(text_document=T.TextDocumentIdentifier(uri=uri)))
+    await diagnostics_where(client, uri, lambda ds: ds == [], "the diagnostics to be cleared")
+
+
 async def test_utf16_columns(client: LanguageClient):
     uri = (client.root / "utf16.cone").as_uri()
     # 𝔸 is outside the basic multilingual plane: two UTF-16 code units, one character
