@@ -2,7 +2,9 @@
 
 The host keeps the text of each open file and answers questions in files and offsets; it
 does no I/O.  Analyses are cached per text, and heavy results per mathematical value (see
-:mod:`conelang.semantics.engine`).
+:mod:`conelang.semantics.engine`).  The editor questions (hover, completion, code actions,
+inlay hints, semantic tokens, outline, folding, rename, formatting) are pure functions of the
+text and an offset, in :mod:`conelang.editor`; the language server only converts positions.
 
 >>> h = AnalysisHost()
 >>> h.apply_change("mem://a.cone", "lattice N = Z^2\\ncone c in N { rays (1,0) (1,2) }")
