@@ -90,3 +90,17 @@ def test_folding_and_semantic_tokens():
     toks = {(text[s:e], t, m) for s, e, t, m in h.semantic_tokens("mem://t.cone")}
     assert {("N", "type", ("declaration",)), ("c", "variable", ()), ("F", "namespace", ("declaration",)),
             ("resolve", "keyword", ()), ("Z", "type", ("defaultLibrary",)), ("# a", "comment", ())} <= toks
+
+
+def test_doctests():
+    import doctest
+
+    import conelang.editor
+    import conelang.host
+    import conelang.server.convert
+    import conelang.server.worker
+    import conelang.syntax.format
+    for mod in (conelang.editor, conelang.host, conelang.server.convert, conelang.server.worker,
+                conelang.syntax.format):
+        result = doctest.testmod(mod)
+        assert result.failed == 0 and result.attempted > 0, mod.__name__
