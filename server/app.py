@@ -473,8 +473,14 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
     def completion(ls: ConeServer, params: T.CompletionParams):
         uri = params.text_document.uri
         ls.ensure_text(uri)
+        offset = ls.offset(uri, params.position)
+        ctx = params.context
+        if ctx is not None and ctx.trigger_kind == T.CompletionTriggerKind.TriggerCharacter and ctx.trigger_character == " ":
+            text = ls.host.text(uri)
+            if not text[text.rfind("\n", 0, offset) + 1:offset].strip():
+                return T.CompletionList(is_incomplete=False, items=[])   # indenting, not asking
         items = []
-        for s in ls.host.completions(uri, ls.offset(uri, params.position)):
+        for s in ls.host.completions(uri, offset):
             items.append(T.CompletionItem(label=s.label, kind=COMPLETION_KIND.get(s.kind), detail=s.detail or None,
                                           insert_text=s.insert, sort_text=f"{s.sort}{s.label}"))
         return T.CompletionList(is_incomplete=False, items=items)

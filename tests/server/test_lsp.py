@@ -229,6 +229,14 @@ async def test_completion_by_context(client: LanguageClient):
         got = {i.label for i in res.items}
         assert must <= got, (suffix, got)
         assert not (must_not & got), (suffix, got)
+    # a space typed to indent a line is not a question
+    version += 1
+    text = base + "cone y in N {\n  "
+    replace_doc(client, uri, text, version)
+    res = await client.text_document_completion_async(T.CompletionParams(
+        text_document=T.TextDocumentIdentifier(uri=uri), position=T.Position(line=text.count("\n"), character=2),
+        context=T.CompletionContext(trigger_kind=T.CompletionTriggerKind.TriggerCharacter, trigger_character=" ")))
+    assert res.items == []
 
 
 def _apply(text: str, edits) -> str:
