@@ -236,7 +236,7 @@ async def test_completion_by_context(client: LanguageClient):
     res = await client.text_document_completion_async(T.CompletionParams(
         text_document=T.TextDocumentIdentifier(uri=uri), position=T.Position(line=text.count("\n"), character=2),
         context=T.CompletionContext(trigger_kind=T.CompletionTriggerKind.TriggerCharacter, trigger_character=" ")))
-    assert res.items == []
+    assert not res.items
 
 
 def _apply(text: str, edits) -> str:
