@@ -251,7 +251,8 @@ def _consume(fut) -> None:
 
 def _shifted(d, shift: int):
     from dataclasses import replace
-    return replace(d, span=(d.span[0] + shift, d.span[1] + shift), related=(), fixes=())
+    return replace(d, span=(d.span[0] + shift, d.span[1] + shift), related=(), fixes=(),
+                   message=d.message + " (from the previous check; checking again…)")
 
 
 def _note(span, code, message):
