@@ -25,7 +25,8 @@ def cone_summary(o: dict) -> str:
         parts.append("simplicial")
     var = o.get("variety")
     if var:
-        parts.append(f"{len(var['generators'])} generators")
+        r = len(var["generators"])
+        parts.append(f"{r} generator{'s' * (r != 1)}")
         if var.get("smooth"):
             parts.append("smooth")
         elif var.get("gorenstein"):

@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import functools
 import re
+from collections import OrderedDict
 from fractions import Fraction
 from importlib import resources
 
@@ -40,6 +41,24 @@ def grammar_text() -> str:
 @functools.cache
 def _parser() -> Lark:
     return Lark(grammar_text(), parser="lalr", propagate_positions=True, maybe_placeholders=False)
+
+
+_TREES: "OrderedDict[str, Tree]" = OrderedDict()
+_TREES_MAX = 50_000
+
+
+def _parse_piece(piece: str) -> Tree:
+    """Parse one statement's text, remembering the tree: when a file is edited, every statement
+    but the edited one is found here (positions in the tree are relative to the piece)."""
+    tree = _TREES.get(piece)
+    if tree is not None:
+        _TREES.move_to_end(piece)
+        return tree
+    tree = _parser().parse(piece)
+    _TREES[piece] = tree
+    if len(_TREES) > _TREES_MAX:
+        _TREES.popitem(last=False)
+    return tree
 
 
 def split_statements(text: str) -> list[tuple[int, int]]:
@@ -73,7 +92,7 @@ def parse(text: str) -> A.Module:
     for start, end in split_statements(text):
         piece = text[start:end]
         try:
-            tree = _parser().parse(piece)
+            tree = _parse_piece(piece)
         except UnexpectedInput as exc:
             module.errors.append(_syntax_error(exc, piece, start))
             continue
