@@ -104,7 +104,8 @@ def _index(a, v):
 
 @prop("cone", "generators", INT, "size of the Hilbert basis of σ^∨ ∩ M (embedding dimension of U_σ)")
 def _generators(a, v):
-    return len(a.engine.variety(v.cone).generators)
+    a.engine.require_pointed(v.cone)
+    return len(a.engine.hilbert_basis(a.engine.dual(v.cone)))   # no need for the equations
 
 
 @prop("cone", "equations", INT, "number of minimal binomial equations of U_σ")

@@ -6,6 +6,7 @@ that user ("ambient") coordinates and lattice coordinates can be converted both 
 """
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 from fractions import Fraction
 
@@ -32,13 +33,23 @@ class Space:
     def dual(self) -> "Space":
         return Space(self.key, self.lattice, not self.is_dual)
 
+    @functools.cached_property
+    def _standard(self) -> bool:
+        return self.lattice.is_standard
+
     def to_coords(self, v) -> Vec | None:
         """Lattice coordinates of the user vector ``v``; None when ``v`` is not in the lattice."""
+        if self._standard:          # Z^d and its dual: the coordinates are the entries
+            if all(Fraction(x).denominator == 1 for x in v):
+                return tuple(int(x) for x in v)
+            return None
         if self.is_dual:
             return glat.dual_to_coords(self.lattice, v)
         return glat.to_coords(self.lattice, v)
 
     def from_coords(self, x) -> tuple[Fraction, ...]:
+        if self._standard:
+            return tuple(Fraction(c) for c in x)
         if self.is_dual:
             return glat.dual_from_coords(self.lattice, x)
         return glat.from_coords(self.lattice, x)
