@@ -50,7 +50,7 @@ from __future__ import annotations
 import heapq
 from bisect import bisect_left
 import math
-from operator import add, le, sub
+from operator import add, le, mul, sub
 from dataclasses import dataclass
 from typing import Callable, Sequence
 
@@ -164,26 +164,47 @@ class _GB:
         self.pairs: dict[int, tuple[int, int, Vec, int]] = {}
         self.heap: list[tuple[int, int]] = []
         self.npairs = 0
+        self.buckets: dict[int, list[tuple[int, Vec, Vec]]] = {}
 
     def normal_form(self, a: Vec) -> Vec:
         """Full reduction of a monomial (the result is a monomial)."""
-        lead, trail, lmask, active = self.lead, self.trail, self.lmask, self.active
+        buckets = self.buckets
         steps = 0
-        ma = _mask(a)
-        i = 0
-        n = len(lead)
-        while i < n:
-            if active[i] and not (lmask[i] & ~ma) and _divides(lead[i], a):
-                a = _sub_add(a, lead[i], trail[i])
-                ma = _mask(a)
-                steps += 1
-                i = 0
-                continue
-            i += 1
-        # each step scans the leading terms: count them (a unit is one elementary operation)
-        self.budget.tick((steps + 1) * (n // 4 + 1), WHAT,
-                         f"{n} binomials in a Gröbner basis")
+        scanned = 0
+        changed = True
+        while changed:
+            changed = False
+            ma = _mask(a)
+            nm = ~ma
+            for j, x in enumerate(a):
+                if not x or j not in buckets:
+                    continue
+                bucket = buckets[j]
+                scanned += len(bucket)
+                for lm, ld, tr in bucket:
+                    if lm & nm:
+                        continue
+                    if all(map(le, ld, a)):
+                        a = tuple(map(add, map(sub, a, ld), tr))
+                        steps += 1
+                        changed = True
+                        break
+                if changed:
+                    break
+        # count the scanned leading terms (a unit is one elementary operation)
+        n = scanned
+        self.budget.tick(n // 4 + 1, WHAT, f"{len(self.lead)} binomials in a Gröbner basis")
         return a
+
+    def _refresh(self) -> None:
+        """Index the active elements by the first variable of their leading term."""
+        buckets: dict[int, list] = {}
+        for i in range(len(self.lead)):
+            if self.active[i]:
+                lm = self.lmask[i]
+                first = (lm & -lm).bit_length() - 1
+                buckets.setdefault(first, []).append((lm, self.lead[i], self.trail[i]))
+        self.buckets = buckets
 
     def make(self, a: Vec, b: Vec):
         if a == b:
@@ -235,13 +256,17 @@ class _GB:
         # criterion F: one pair per lcm, none at all if one of them is coprime
         kept: list[tuple[int, Vec, int, int, bool]] = []
         by_lcm: dict[Vec, list] = {}
+        kdeg: list[int] = []
+        kmask: list[int] = []
+        klcm: list[Vec] = []
         for c in cand:
             deg, L, Lm, i, cop = c
+            nLm = ~Lm
             dominated = False
-            for deg2, L2, Lm2, _, _ in kept:
+            for deg2, Lm2, L2 in zip(kdeg, kmask, klcm):
                 if deg2 >= deg:
                     break
-                if not (Lm2 & ~Lm) and _divides(L2, L):
+                if not (Lm2 & nLm) and all(map(le, L2, L)):
                     dominated = True
                     break
             if dominated:
@@ -251,16 +276,17 @@ class _GB:
                 continue
             by_lcm[L] = [c]
             kept.append(c)
+            kdeg.append(deg)
+            kmask.append(Lm)
+            klcm.append(L)
         # criterion B on old pairs
         lead = self.lead
-        for pid, (i, j, L, Lm) in list(self.pairs.items()):
-            if not (hm & ~Lm) and _divides(hl, L):
-                Li = tuple(map(max, lead[i], hl))
-                if Li == L:
-                    continue
-                Lj = tuple(map(max, lead[j], hl))
-                if Lj != L:
-                    del self.pairs[pid]
+        hit = [pid for pid, (_, _, L, Lm) in self.pairs.items()
+               if not (hm & ~Lm) and all(map(le, hl, L))]
+        for pid in hit:
+            i, j, L, _ = self.pairs[pid]
+            if tuple(map(max, lead[i], hl)) != L and tuple(map(max, lead[j], hl)) != L:
+                del self.pairs[pid]
         for L, lst in by_lcm.items():
             if any(c[4] for c in lst):
                 continue
@@ -278,6 +304,7 @@ class _GB:
         self.trail.append(h[1])
         self.lmask.append(hm)
         self.active.append(True)
+        self._refresh()
 
     def reduced(self) -> list[tuple[Vec, Vec]]:
         """The reduced Gröbner basis (minimal leading terms, trails in normal form)."""
@@ -294,6 +321,7 @@ class _GB:
         keep = set(mins)
         for i in range(len(self.active)):
             self.active[i] = i in keep
+        self._refresh()
         return [(self.lead[i], self.normal_form(self.trail[i])) for i in mins]
 
 
@@ -305,7 +333,7 @@ def _revlex_key(last: int, r: int, weights: Sequence[int] | None):
             return (sum(a),) + tuple(-a[j] for j in order)
     else:
         def key(a: Vec) -> tuple:
-            return (dot(weights, a),) + tuple(-a[j] for j in order)
+            return (sum(map(mul, weights, a)),) + tuple(-a[j] for j in order)
     return key
 
 
@@ -321,7 +349,7 @@ def binomial_gb(binomials: Sequence[Binomial], r: int, weights: Sequence[int] | 
     """
     budget = ensure(budget)
     key = _revlex_key(r - 1, r, weights)
-    w = (lambda a: dot(weights, a)) if weights is not None else sum
+    w = (lambda a: sum(map(mul, weights, a))) if weights is not None else sum
     gb = _GB(key, budget, w)
     gb.run([(tuple(p), tuple(m)) for p, m in binomials])
     return tuple(sorted(gb.reduced()))
@@ -428,7 +456,7 @@ def _saturate_graded(basis: Sequence[Vec], weights: Sequence[int], budget: Budge
     else:
         order = list(range(r))
     current = [_split(x) for x in basis]
-    wfun = lambda a: dot(weights, a)
+    wfun = lambda a: sum(map(mul, weights, a))
     for i in order:
         gb = _GB(_revlex_key(i, r, weights), budget, wfun)
         gb.run(current)
