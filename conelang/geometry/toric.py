@@ -14,18 +14,22 @@ general polynomial machinery, on pairs of exponent vectors only:
    the ideals involved are homogeneous for the grading ``deg z_i = <w, a_i>`` and we saturate
    one variable at a time: a Gröbner basis for the order "degree, then reverse lexicographic
    with ``z_i`` last" divided by the powers of ``z_i`` is a Gröbner basis of ``J : z_i^∞``
-   (Bayer–Stillman; Sturmfels, Lemma 12.1).  Otherwise we eliminate ``t`` from
-   ``J_B + (t z_1 ⋯ z_r - 1)``.  The Gröbner bases are computed by Buchberger's algorithm
-   specialised to binomials (an S-pair or a reduction of binomials is again a binomial),
-   with the Gebauer–Möller criteria.
+   (Bayer–Stillman; Sturmfels, Lemma 12.1).  Usually only ``rank A`` variables need it: if
+   the basis restricts to the identity on a set τ of coordinates, ``J_B`` is already
+   saturated with respect to the variables of τ (see :func:`_saturate_graded`).  Otherwise
+   (a monoid with units) we eliminate ``t`` from ``J_B + (t z_1 ⋯ z_r - 1)``.  The Gröbner
+   bases are computed by Buchberger's algorithm specialised to binomials (an S-pair or a
+   reduction of binomials is again a binomial), with the Gebauer–Möller criteria.
 3. Minimal generators (pointed case), by the fiber criterion (Diaconis–Sturmfels;
    Charalambous–Katsabekis–Thoma): for a degree ``β``, let ``F_β = {u ∈ N^r : A u = β}``
    and join ``u, v`` when they share a variable.  Then ``z^u - z^v`` lies in the ideal of the
    binomials of smaller degree iff ``u, v`` are in the same connected component, so a minimal
    generating set has ``#components - 1`` binomials of degree ``β``.  Every such degree is
    the degree of an element of any homogeneous generating set, so only the degrees of the
-   Gröbner basis elements are examined; the fibers are explored with the Gröbner basis as a
-   Markov basis.
+   Gröbner basis elements are examined: a degree is skipped when each of its Gröbner basis
+   elements joins two points already connected by moves of smaller degree (a bidirectional
+   search), and otherwise the whole fiber is explored, with the Gröbner basis as a Markov
+   basis.
 
 Canonical output (pointed case)
 -------------------------------
