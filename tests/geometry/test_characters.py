@@ -9,7 +9,6 @@ import sympy
 
 from conelang.geometry.characters import MAX_HOLES, analyse_characters
 from conelang.geometry.cone import contains
-from conelang.geometry.toric import toric_ideal
 
 
 def _gaps(a, b, limit):
