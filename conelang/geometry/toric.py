@@ -52,7 +52,6 @@ sort order.  The affine toric varieties of non-full-dimensional cones avoid this
 from __future__ import annotations
 
 import heapq
-from bisect import bisect_left
 import math
 from operator import add, le, mul, sub
 from dataclasses import dataclass
@@ -515,32 +514,43 @@ def _sort_key(b: Binomial):
     return (max(sum(p), sum(m)), tuple(-x for x in p), tuple(-x for x in m))
 
 
-def _directed(moves: list[tuple[Vec, Vec]]) -> list[tuple[Vec, Vec, int]]:
-    """Both directions of each move, with the support mask of the term to be divided."""
-    out = []
-    for a, b in moves:
-        out.append((a, b, _mask(a)))
-        out.append((b, a, _mask(b)))
-    return out
+class _Moves:
+    """Moves ``x -> y`` (both directions of Markov basis elements), indexed by the first
+    variable of ``x`` so that only the moves that can apply to a point are looked at."""
+
+    def __init__(self, moves: Sequence[tuple[Vec, Vec]] = ()):
+        self.index: dict[int, list[tuple[Vec, Vec, int]]] = {}
+        self.count = 0
+        for a, b in moves:
+            self.add(a, b)
+
+    def add(self, a: Vec, b: Vec) -> None:
+        for x, y in ((a, b), (b, a)):
+            mx = _mask(x)
+            first = (mx & -mx).bit_length() - 1
+            self.index.setdefault(first, []).append((x, y, mx))
+        self.count += 2
+
+    def neighbours(self, p: Vec):
+        mp = _mask(p)
+        nm = ~mp
+        index = self.index
+        for j, e in enumerate(p):
+            if e and j in index:
+                for x, y, mx in index[j]:
+                    if not (mx & nm) and all(map(le, x, p)):
+                        yield tuple(map(add, map(sub, p, x), y))
 
 
-def _neighbours(p: Vec, moves: list[tuple[Vec, Vec, int]]):
-    mp = _mask(p)
-    for x, y, mx in moves:
-        if not (mx & ~mp) and _divides(x, p):
-            yield _sub_add(p, x, y)
-
-
-def _fiber_components(start: Vec, moves: list[tuple[Vec, Vec, int]], budget: Budget
-                      ) -> list[list[Vec]]:
-    """The fiber of ``start`` (connected by the Markov basis ``moves``, see
-    :func:`_directed`) split into the components of the graph 'share a variable'."""
+def _fiber_components(start: Vec, moves: _Moves, budget: Budget) -> list[list[Vec]]:
+    """The fiber of ``start`` (connected by the Markov basis ``moves``) split into the
+    components of the graph 'share a variable'."""
     seen = {start}
     stack = [start]
     while stack:
         u = stack.pop()
-        budget.tick(len(moves) // 8 + 1, WHAT, f"{len(seen)} monomials in one degree")
-        for v in _neighbours(u, moves):
+        budget.tick(moves.count // 6 + 1, WHAT, f"{len(seen)} monomials in one degree")
+        for v in moves.neighbours(u):
             if v not in seen:
                 seen.add(v)
                 stack.append(v)
@@ -570,7 +580,7 @@ def _fiber_components(start: Vec, moves: list[tuple[Vec, Vec, int]], budget: Bud
     return list(comps.values())
 
 
-def _connected_below(u: Vec, v: Vec, moves: list[tuple[Vec, Vec, int]], budget: Budget) -> bool:
+def _connected_below(u: Vec, v: Vec, moves: _Moves, budget: Budget) -> bool:
     """Whether ``u`` and ``v`` (same degree) are joined by ``moves`` (all of smaller degree):
     a bidirectional breadth-first search that stops when the two searches meet or one side
     runs out (then its component is complete and does not contain the other point)."""
@@ -581,10 +591,10 @@ def _connected_below(u: Vec, v: Vec, moves: list[tuple[Vec, Vec, int]], budget: 
         side = 0 if len(frontier[0]) <= len(frontier[1]) else 1
         mine, other = seen[side], seen[1 - side]
         nxt = []
-        budget.tick(len(frontier[side]) * (len(moves) // 8 + 1), WHAT,
+        budget.tick(len(frontier[side]) * (moves.count // 6 + 1), WHAT,
                     f"{len(mine) + len(other)} monomials in one degree")
         for p in frontier[side]:
-            for q in _neighbours(p, moves):
+            for q in moves.neighbours(p):
                 if q in other:
                     return True
                 if q not in mine:
@@ -609,13 +619,16 @@ def _minimal_graded(gens: list[Vec], gb: list[tuple[Vec, Vec]], weights: Sequenc
         by_beta.setdefault(degree(a), []).append((a, b))
     order = sorted(by_beta, key=lambda beta: (wdeg(by_beta[beta][0][0]), beta))
     by_weight = sorted(gb, key=lambda g: wdeg(g[0]))
-    weights_sorted = [wdeg(g[0]) for g in by_weight]
-    all_moves = _directed(by_weight)
+    all_moves = _Moves(by_weight)
+    lower = _Moves()                       # the moves of degree < w, grown as w increases
+    pos = 0
     out = []
     for beta in order:
         elems = by_beta[beta]
         w = wdeg(elems[0][0])
-        lower = all_moves[:2 * bisect_left(weights_sorted, w)]
+        while pos < len(by_weight) and wdeg(by_weight[pos][0]) < w:
+            lower.add(*by_weight[pos])
+            pos += 1
         if all(_connected_below(a, b, lower, budget) for a, b in elems):
             continue
         comps = _fiber_components(elems[0][0], all_moves, budget)
