@@ -481,7 +481,7 @@ def test_kinds_are_consistent_with_theorems(mor):
     cone_img = cone_from_rays(images, n)
     assert k.finite == all(contains(cone_img, u) for u in sg)
     # closed embedding: every generator of σ^∨ ∩ M is a pullback (brute force, bounded)
-    if k.closed_embedding:
+    if k.closed_embedding and len(images) <= 5:     # the box search has 5^len(images) points
         assert all(brute_monoid(u, images, 4) is not None for u in sg)
 
 
