@@ -23,9 +23,10 @@ def _cyclic(n, q):
 
 def test_cyclic_quotient_singularities():
     # σ = cone((0,1),(n,-q)), gcd(n,q) = 1, is the cyclic quotient singularity 1/n(1,q)
-    # (CLS, Toric Varieties, Example 1.3.? / §10.1; Fulton §2.2, from memory):
-    #  * Cl(U_σ) = Z/n (CLS Example 4.1.? : Cl of a cyclic quotient singularity, from memory;
-    #    here also: the rays (0,1),(n,-q) span a sublattice of index n),
+    # (Cox–Little–Schenck, Toric Varieties, §10.1; Fulton, Introduction to Toric Varieties,
+    # §2.2, from memory):
+    #  * Cl(U_σ) = Z/n (the class group of C^2/μ_n is the character group of μ_n; CLS §4.1,
+    #    from memory; here also: the rays (0,1),(n,-q) span a sublattice of index n),
     #  * Gorenstein iff q = n - 1 (the A_{n-1} singularities; Reid, "Young person's guide to
     #    canonical singularities", from memory),
     #  * Gorenstein index n / gcd(n, q + 1): solving <m,(0,1)> = k, <m,(n,-q)> = k by hand
@@ -59,7 +60,8 @@ def test_smooth_cones():
 
 def test_quadric_cone():
     # the cone over the unit square: Gorenstein (rays at height 1: m = (0,0,1)), not
-    # simplicial, class group Z (CLS, Example 4.1.? for xy = zw, from memory)
+    # simplicial, class group Z (CLS §4.1, the example of the quadric cone xy = zw, from
+    # memory)
     sq = cone_from_rays([(0, 0, 1), (1, 0, 1), (0, 1, 1), (1, 1, 1)], 3)
     assert is_gorenstein(sq) and not is_simplicial(sq) and not is_smooth(sq)
     assert class_group(sq) == (1, ())
