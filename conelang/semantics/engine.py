@@ -85,9 +85,13 @@ class Engine:
         fn = getattr(invariants, name)
         return self.cached("invariant:" + name, fn, cone, budgeted=False)
 
-    def characters(self, chars):
+    def characters(self, value):
+        """The analysis of a ``characters`` value (its lattice rank is passed, so an empty list
+        of characters is fine)."""
         from ..geometry import characters
-        return self.cached("characters", characters.analyse_characters, chars)
+        dim = value.space.rank
+        return self.cached("characters", lambda chars, d, budget: characters.analyse_characters(chars, budget, dim=d),
+                           value.characters, dim)
 
     def resolve(self, cone):
         """A smooth refinement of a pointed cone: a :class:`conelang.geometry.fan.Resolution`

@@ -174,7 +174,7 @@ def characters_facts(analysis, value: V.CharactersValue, heavy: bool = True) -> 
     if not heavy:
         return out
     errors: list[str] = []
-    ch = _guard(errors, "characters", lambda: analysis.engine.characters(value.characters))
+    ch = _guard(errors, "characters", lambda: analysis.engine.characters(value))
     if ch is not None:
         dual_space = value.space.dual()
         out.update({

@@ -126,7 +126,7 @@ def _class_group(a, v):
 # ---- characters ----------------------------------------------------------------------------
 @prop("characters", "normal", BOOL, "the monoid they generate is saturated in the group they generate")
 def _normal(a, v):
-    return a.engine.characters(v.characters).normal
+    return a.engine.characters(v).normal
 
 
 # ---- maps ---------------------------------------------------------------------------------
