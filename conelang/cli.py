@@ -89,14 +89,19 @@ def cmd_check(args) -> int:
 
 
 def _write_atomic(path: Path, text: str) -> None:
-    """Write via a temporary file in the same folder and an atomic rename."""
+    """Write via a temporary file in the same folder and an atomic rename: a crash mid-write
+    leaves the old file whole."""
     import tempfile
     fd, tmp = tempfile.mkstemp(dir=str(path.parent or "."), prefix=f".{path.name}.", suffix=".tmp")
     try:
-        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+        with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
             fh.write(text)
             fh.flush()
             os.fsync(fh.fileno())
+        try:                                   # keep the permissions of the file it replaces
+            os.chmod(tmp, path.stat().st_mode & 0o7777)
+        except OSError:
+            pass
         os.replace(tmp, path)
     except BaseException:
         try:
@@ -169,7 +174,7 @@ def cmd_format(args) -> int:
             print(f"{path}: would be reformatted")
             continue
         try:
-            _write_atomically(path, new)
+            _write_atomic(path, new)
         except OSError as exc:
             print(f"conelang: {path}: cannot write ({exc.strerror})", file=sys.stderr)
             unreadable = True
@@ -178,25 +183,6 @@ def cmd_format(args) -> int:
     if unreadable:
         return 2
     return 1 if (args.check and changed) or broken else 0
-
-
-def _write_atomically(path: Path, text: str) -> None:
-    import tempfile
-    fd, tmp = tempfile.mkstemp(prefix="." + path.name + ".", suffix=".tmp", dir=str(path.parent))
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="") as f:
-            f.write(text)
-        try:
-            os.chmod(tmp, path.stat().st_mode & 0o7777)
-        except OSError:
-            pass
-        os.replace(tmp, path)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
-        raise
 
 
 def cmd_serve(args) -> int:

@@ -17,6 +17,7 @@ from conelang.cli import main
 from conelang.host import AnalysisHost
 from conelang.semantics import properties as P
 from conelang.semantics.analysis import Analysis
+from references import hirzebruch_jung as hj
 
 
 def analyse(text: str):
@@ -223,13 +224,6 @@ def test_fan_whose_rays_do_not_span():
 # resolutions
 
 
-def hj(n, q):
-    out = []
-    while q:
-        b = -(-n // q)
-        out.append(b)
-        n, q = q, b * q - n
-    return out
 
 
 @pytest.mark.parametrize("n,q", [(2, 1), (5, 2), (7, 3), (12, 5), (30, 7), (29, 28)])

@@ -23,6 +23,7 @@ from conelang.geometry.fan import (
     cartier_basis, check_fan, class_group, fan_invariants, hirzebruch_jung, picard_group, resolve,
 )
 from conelang.geometry.monoid import hilbert_basis
+from references import hirzebruch_jung as hj_reference
 
 SETTINGS = settings(max_examples=40, deadline=None)
 
@@ -84,14 +85,6 @@ def carrier_plane(p, gens):
     return frozenset(g for g, c in ((a, s), (b, t)) if c > 0)
 
 
-def hj_reference(n, q):
-    """n/q = b1 - 1/(b2 - ...) by the defining recursion (Fulton §2.6 (from memory))."""
-    out = []
-    while q:
-        b = -(-n // q)
-        out.append(b)
-        n, q = q, b * q - n
-    return out
 
 
 def evaluate_cf(bs):

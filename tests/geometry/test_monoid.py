@@ -15,6 +15,7 @@ from conelang.geometry.monoid import (
     triangulate,
 )
 from strategies import pointed_full_generators
+from references import hirzebruch_jung as _hirzebruch_jung
 
 
 def _caratheodory_bound(c) -> int:
@@ -246,13 +247,6 @@ def test_budget_names_the_computation():
 # large indices (the vectorised enumeration)
 
 
-def _hirzebruch_jung(p, q):
-    out = []
-    while q:
-        a = -(-p // q)
-        out.append(a)
-        p, q = q, a * q - p
-    return out
 
 
 @pytest.mark.parametrize("n,q", [(10007, 3), (6000, 1001), (7919, 7918), (9973, 17)])

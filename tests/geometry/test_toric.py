@@ -13,6 +13,7 @@ from conelang.geometry.toric import (
     affine_toric_variety, binomial_gb, binomial_string, laurent_monomial_string,
     monomial_string, toric_ideal,
 )
+from references import hirzebruch_jung as _hirzebruch_jung
 
 
 # ---------------------------------------------------------------------------------------------
@@ -104,14 +105,6 @@ def test_rational_normal_curve_counts_up_to_12():
 # cyclic quotient surface singularities
 
 
-def _hirzebruch_jung(p, q):
-    """[a1, a2, ...] with p/q = a1 - 1/(a2 - 1/...), all a_i >= 2 (for 0 < q < p)."""
-    out = []
-    while q:
-        a = -(-p // q)
-        out.append(a)
-        p, q = q, a * q - p
-    return out
 
 
 def test_hirzebruch_jung_helper():
