@@ -94,7 +94,7 @@ def test_rational_normal_curve_is_hankel_minors(d):
 
 
 def test_rational_normal_curve_counts_up_to_12():
-    # number of minimal quadrics binom(d, 2) (Harris, Lecture 9, from memory)
+    # number of minimal quadrics binom(d, 2) (Harris, Algebraic Geometry: A First Course, §9 on determinantal varieties, from memory)
     for d in range(2, 13):
         bins = toric_ideal([(1, i) for i in range(d + 1)])
         assert len(bins) == comb(d, 2)
