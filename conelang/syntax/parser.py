@@ -45,6 +45,9 @@ def _parser() -> Lark:
 
 _TREES: "OrderedDict[str, Tree]" = OrderedDict()
 _TREES_MAX = 50_000
+# typed statements by (text, offset): nodes are immutable, so a statement that neither changed
+# nor moved is shared between successive parses of an edited file
+_BUILT: "OrderedDict[tuple[str, int], object]" = OrderedDict()
 
 
 def _parse_piece(piece: str) -> Tree:
@@ -91,6 +94,10 @@ def parse(text: str) -> A.Module:
     module = A.Module()
     for start, end in split_statements(text):
         piece = text[start:end]
+        built = _BUILT.get((piece, start))
+        if built is not None:            # the same statement at the same place: reuse its nodes
+            module.statements.append(built)
+            continue
         try:
             tree = _parse_piece(piece)
         except UnexpectedInput as exc:
@@ -100,7 +107,11 @@ def parse(text: str) -> A.Module:
             module.errors.append(A.SyntaxError_("statement is nested too deeply", (start, end), (start, end)))
             continue
         try:
-            module.statements.append(_Builder(start).statement(tree.children[0]))
+            built = _Builder(start).statement(tree.children[0])
+            module.statements.append(built)
+            _BUILT[(piece, start)] = built
+            if len(_BUILT) > _TREES_MAX:
+                _BUILT.popitem(last=False)
         except _BuildError as exc:
             module.errors.append(A.SyntaxError_(exc.message, exc.span, (start, end)))
         except RecursionError:
