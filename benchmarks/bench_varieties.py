@@ -12,7 +12,6 @@ Run: python benchmarks/bench_varieties.py [--magic]
 from __future__ import annotations
 
 import argparse
-import itertools
 import time
 
 import sympy

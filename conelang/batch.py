@@ -68,7 +68,7 @@ def run(paths: list[str], jobs: int = 1, budget_limit=None, progress=None, sched
         return out
     # warm up before the workers fork, so they inherit the imports and the built parser
     from .syntax.parser import _parser
-    from . import host  # noqa: F401
+    from . import host  # noqa: F401  (imported for the workers to inherit)
     _parser()
     # several files per task keeps the per-task overhead small; results stay in input order
     size = max(1, min(32, total // (jobs * 4) or 1))

@@ -17,10 +17,9 @@ from fractions import Fraction
 
 from .geometry import cone as gcone
 from .geometry import linalg
-from .geometry.budget import BudgetExceeded, Cancelled
+from .geometry.budget import Cancelled
 from .semantics import values as V
-from .semantics.diagnostics import Diagnostic, Fix
-from .semantics.engine import NotAvailable, NotPointed
+from .semantics.diagnostics import Diagnostic
 from .syntax import ast as A
 from .syntax.format import KEYWORDS, SECTION_KEYWORDS, STATEMENT_KEYWORDS, tokenize
 

@@ -35,8 +35,6 @@ import conelang
 from conelang import editor
 from conelang.geometry import budget as gbudget
 from conelang.host import AnalysisHost
-from conelang.syntax import ast as A
-from conelang.syntax.parser import parse
 
 from .convert import Positions
 from .worker import HeavyWorker, JobCancelled, WorkerFailed

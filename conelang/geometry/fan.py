@@ -42,14 +42,14 @@ True
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from fractions import Fraction
 from math import gcd
 from typing import Callable, Sequence
 
 from . import linalg
 from .budget import Budget, ensure
-from .cone import (Cone, a_line_in, cone_from_rays, contains, faces, intersection, is_face,
+from .cone import (Cone, a_line_in, cone_from_rays, faces, intersection, is_face,
                    relative_interior_point)
 from .linalg import Vec, dot, primitive
 

@@ -374,7 +374,7 @@ def _candidates_numpy(c: Cone, gens, dets, budget: Budget, what: str, detail: st
     reducible, whatever y is)."""
     import numpy as np
 
-    k, nf = c.ambient_dim, len(c.facets)
+    k = c.ambient_dim
     F = np.array(c.facets, dtype=np.int64).T           # k x nf
     cost = 1
     # pass 1: the _REDUCERS points of smallest degree (sum of the facet values)

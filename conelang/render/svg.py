@@ -33,7 +33,7 @@ from __future__ import annotations
 
 from fractions import Fraction
 from math import sqrt
-from xml.sax.saxutils import escape, quoteattr
+from xml.sax.saxutils import escape
 
 PANEL = 300          # drawing area of a panel (square), in SVG units
 TITLE = 34           # room for the title above a panel

@@ -27,7 +27,7 @@ from ..syntax.parser import parse
 from ..syntax.text import LineIndex
 from . import values as V
 from .diagnostics import Diagnostic, Fix, Related, Sink, sort_key
-from .engine import Engine, NotPointed
+from .engine import Engine
 
 KIND_ARTICLE = {"lattice": "a lattice", "cone": "a cone", "map": "a map", "morphism": "a morphism",
                 "characters": "a list of characters", "fan": "a fan"}

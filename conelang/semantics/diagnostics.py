@@ -5,7 +5,7 @@ the full list.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 Span = tuple[int, int]
 

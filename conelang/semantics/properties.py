@@ -20,6 +20,7 @@ from typing import Any, Callable
 
 from ..geometry import cone as gcone
 from ..geometry import linalg
+from ..geometry import maps as gmaps
 from ..geometry.budget import BudgetExceeded, Cancelled
 from ..syntax import ast as A
 from .diagnostics import Related
@@ -131,34 +132,18 @@ def _normal(a, v):
 
 # ---- maps ---------------------------------------------------------------------------------
 # Properties of the lattice map f : N -> N' itself (lattice coordinates, exact).
-@prop("map", "injective", BOOL, "f : N → N' is injective")
-def _map_injective(a, v):
-    from ..geometry import maps
-    return maps.is_injective(v.matrix, v.source.rank)
+def _map_property(name: str, type_: str, doc: str, fn) -> None:
+    """A property of the lattice map itself: ``fn(matrix, source_rank)`` from geometry.maps."""
+    prop("map", name, type_, doc)(lambda a, v: fn(v.matrix, v.source.rank))
 
 
-@prop("map", "surjective", BOOL, "f : N → N' is surjective (onto the lattice, not just of full rank)")
-def _map_surjective(a, v):
-    from ..geometry import maps
-    return maps.is_surjective(v.matrix, v.source.rank)
-
-
-@prop("map", "isomorphism", BOOL, "f : N → N' is an isomorphism of lattices")
-def _map_isomorphism(a, v):
-    from ..geometry import maps
-    return maps.is_isomorphism(v.matrix, v.source.rank)
-
-
-@prop("map", "rank", INT, "rank of f (dimension of its image)")
-def _map_rank(a, v):
-    from ..geometry import maps
-    return maps.rank(v.matrix, v.source.rank)
-
-
-@prop("map", "cokernel", GROUP, "the cokernel N'/f(N), e.g. \"Z/7\" or \"Z\"")
-def _map_cokernel(a, v):
-    from ..geometry import maps
-    return maps.cokernel(v.matrix, v.source.rank)
+for _name, _type, _doc, _fn in (
+        ("injective", BOOL, "f : N → N' is injective", gmaps.is_injective),
+        ("surjective", BOOL, "f : N → N' is surjective (onto the lattice, not just of full rank)", gmaps.is_surjective),
+        ("isomorphism", BOOL, "f : N → N' is an isomorphism of lattices", gmaps.is_isomorphism),
+        ("rank", INT, "rank of f (dimension of its image)", gmaps.rank),
+        ("cokernel", GROUP, "the cokernel N'/f(N), e.g. \"Z/7\" or \"Z\"", gmaps.cokernel)):
+    _map_property(_name, _type, _doc, _fn)
 
 
 # ---- morphisms ----------------------------------------------------------------------------

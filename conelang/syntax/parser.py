@@ -17,7 +17,7 @@ from fractions import Fraction
 from importlib import resources
 
 from lark import Lark, Token, Tree
-from lark.exceptions import UnexpectedCharacters, UnexpectedEOF, UnexpectedInput, UnexpectedToken
+from lark.exceptions import UnexpectedCharacters, UnexpectedInput, UnexpectedToken
 
 from . import ast as A
 
