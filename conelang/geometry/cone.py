@@ -251,9 +251,61 @@ def extreme_rays(ineqs: Iterable[Sequence[int]], eqs: Iterable[Sequence[int]], d
 # construction
 
 
+def _project_out(v: Vec, basis: Sequence[Vec]) -> Vec:
+    """The primitive vector on the ray of the Euclidean projection of ``v`` onto the orthogonal
+    complement of ``span(basis)`` (``v`` itself made primitive when ``basis`` is empty; the
+    zero vector when ``v`` lies in the span)."""
+    if not basis:
+        return primitive(v)
+    gram = [[dot(a, b) for b in basis] for a in basis]
+    coef = linalg.solve_rational(gram, [dot(a, v) for a in basis], len(basis))
+    den = 1
+    for x in coef:
+        den = lcm(den, Fraction(x).denominator)
+    out = [den * x for x in v]
+    for c, a in zip(coef, basis):
+        c = int(c * den)
+        if c:
+            out = [x - c * y for x, y in zip(out, a)]
+    return primitive(out)
+
+
+def _irredundant(cands: Sequence[Vec], other: Sequence[Vec], space: Sequence[Vec], d: int,
+                 budget: Budget) -> tuple[Vec, ...]:
+    """The canonical extremal members of a description, read off the other description.
+
+    ``cands`` generate the cone (as rays, or as inequalities); ``other`` are the extreme rays
+    of the other side (facets, or rays); ``space`` is the lattice to project out (the
+    lineality, or the equations).  A candidate is extremal iff the set of members of ``other``
+    on which it vanishes is maximal among the candidates' sets that are not everything: every
+    extremal ray (facet) is spanned (cut out) by some candidate, and a candidate in the
+    relative interior of a larger face (cutting out a smaller face) vanishes on strictly
+    fewer.  This replaces a second double description, which can be much harder than the
+    first (the facets of a cone with thousands of rays)."""
+    full = (1 << len(other)) - 1
+    budget.tick(len(cands) * len(other), "double description",
+                f"{len(cands)} candidates against {len(other)} extreme rays")
+    by_mask: dict[int, Vec] = {}
+    for c in cands:
+        m = 0
+        for i, r in enumerate(other):
+            if not dot(c, r):
+                m |= 1 << i
+        if m != full and m not in by_mask:
+            by_mask[m] = c
+    masks = list(by_mask)
+    keep = set()
+    for m in masks:
+        if not any(m2 != m and m2 & m == m for m2 in masks):
+            keep.add(_project_out(by_mask[m], space))
+    return tuple(sorted(keep))
+
+
 def _build(gens: list[Vec], lin: list[Vec], d: int, budget: Budget | None) -> Cone:
+    budget = ensure(budget)
     facets, equations = extreme_rays(gens, lin, d, budget)
-    rays, lineality = extreme_rays(facets, equations, d, budget)
+    lineality = linalg.kernel_basis(list(facets) + list(equations), d)
+    rays = _irredundant(gens, facets, lineality, d, budget)
     return Cone(d, rays, lineality, facets, equations)
 
 
@@ -284,8 +336,11 @@ def cone_from_inequalities(ineqs: Iterable[Sequence[int]], eqs: Iterable[Sequenc
     """
     if d < 0:
         raise ValueError("negative dimension")
+    budget = ensure(budget)
+    ineqs = _clean_rows(ineqs, d, "inequality")
     rays, lin = extreme_rays(ineqs, eqs, d, budget)
-    facets, equations = extreme_rays(rays, lin, d, budget)
+    equations = linalg.kernel_basis(list(rays) + list(lin), d)
+    facets = _irredundant(ineqs, rays, equations, d, budget)
     return Cone(d, rays, lin, facets, equations)
 
 

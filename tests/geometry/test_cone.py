@@ -595,3 +595,39 @@ def test_redundant_inequalities(inp):
     assert cone_from_inequalities(kept, E, d) == c
     implicit = [a for a in kept if all(ip(a, r) == 0 for r in c.rays)]
     assert len(kept) - len(implicit) == len(c.facets)
+
+
+@settings(max_examples=80, deadline=None)
+@given(cone_inputs(1, 5, max_gens=8, max_lineality=1))
+def test_second_description_read_off_agrees_with_a_second_double_description(inp):
+    # cone_from_rays / cone_from_inequalities run the double description once and read the
+    # extremal members of the input off the incidences; the reference runs it a second time
+    # on the other side (the symmetric construction; common practice, no source)
+    gens, lin, d = inp
+    facets, eqs = extreme_rays(gens, lin, d)
+    rays, L = extreme_rays(facets, eqs, d)
+    c = cone_from_rays(gens, d, lin)
+    assert (c.rays, c.lineality, c.facets, c.equations) == (rays, L, facets, eqs)
+    rays, L = extreme_rays(gens, lin, d)
+    facets, eqs = extreme_rays(rays, L, d)
+    c = cone_from_inequalities(gens, lin, d)
+    assert (c.rays, c.lineality, c.facets, c.equations) == (rays, L, facets, eqs)
+
+
+def _magic_squares(n):
+    """Nonnegative n x n squares whose rows, columns and two diagonals have equal sums."""
+    d = n * n
+    lines = [[i * n + j for j in range(n)] for i in range(n)] + [[i * n + j for i in range(n)] for j in range(n)]
+    lines += [[i * n + i for i in range(n)], [i * n + n - 1 - i for i in range(n)]]
+    eqs = [tuple((k in lines[0]) - (k in line) for k in range(d)) for line in lines[1:]]
+    return cone_from_inequalities([tuple(int(k == m) for k in range(d)) for m in range(d)], eqs, d)
+
+
+@pytest.mark.parametrize("n,rays", [(3, 4), (4, 20), (5, 1940)])
+def test_magic_squares_extreme_rays(n, rays):
+    # magic squares of order n >= 3 form a cone of dimension n^2 - 2n (2n + 1 equations with
+    # one relation: the row total equals the column total) with 4, 20 and 1940 extreme rays
+    # for n = 3, 4, 5 (M. Ahmed, Polyhedral geometry of magic squares, from memory)
+    c = _magic_squares(n)
+    assert (c.dim, len(c.rays)) == (n * n - 2 * n, rays)
+    assert c.pointed and all(contains(c, r) for r in c.rays)
