@@ -19,6 +19,7 @@ from .semantics.diagnostics import Diagnostic
 from .semantics.engine import Engine
 from .semantics.facts import object_facts
 from .syntax import ast as A
+from .syntax.text import LineIndex
 from . import editor
 
 
@@ -37,16 +38,19 @@ class AnalysisHost:
         self.cancel = cancel
         self.texts: dict[str, str] = {}
         self._analyses: dict[str, Analysis] = {}
+        self._indexes: dict[str, LineIndex] = {}
 
     # -- files ---------------------------------------------------------------------------
     def apply_change(self, uri: str, text: str) -> None:
         if self.texts.get(uri) != text:
             self.texts[uri] = text
             self._analyses.pop(uri, None)
+            self._indexes.pop(uri, None)
 
     def remove(self, uri: str) -> None:
         self.texts.pop(uri, None)
         self._analyses.pop(uri, None)
+        self._indexes.pop(uri, None)
 
     def forget_analysis(self, uri: str) -> None:
         """Drop the cached analysis of ``uri`` (e.g. after a cancelled computation)."""
@@ -54,6 +58,21 @@ class AnalysisHost:
 
     def text(self, uri: str) -> str:
         return self.texts.get(uri, "")
+
+    def line_index(self, uri: str) -> LineIndex:
+        """Lines of the current text of ``uri``, without analysing it (offsets ↔ positions).
+
+        >>> h = AnalysisHost(); h.apply_change("m", "a\\nbc")
+        >>> h.line_index("m").position(3)
+        (1, 1)
+        """
+        a = self._analyses.get(uri)
+        if a is not None:
+            return a.index
+        ix = self._indexes.get(uri)
+        if ix is None:
+            ix = self._indexes[uri] = LineIndex(self.texts.get(uri, ""))
+        return ix
 
     def analysis(self, uri: str, engine: Engine | None = None) -> Analysis:
         a = self._analyses.get(uri)

@@ -88,6 +88,21 @@ def _watch_parent(parent_pid: int) -> None:
             os._exit(0)
 
 
+def _warm_up() -> None:
+    """Build the parser and import what the jobs use, then hide everything alive so far from
+    the garbage collector (``gc.freeze``), so that a full collection in the middle of a job
+    walks the objects the jobs made, not the ~70 000 of the imported libraries (45 ms)."""
+    import gc
+    try:
+        from conelang.semantics import facts, properties  # noqa: F401
+        from conelang.syntax.parser import parse
+        parse("lattice N = Z^2")
+    except Exception:  # noqa: BLE001 - only an optimisation
+        pass
+    gc.collect()
+    gc.freeze()
+
+
 def worker_main(conn, shared, budget_limit, parent_pid) -> None:
     """Entry point of the worker process: answer jobs until the pipe closes."""
     from conelang.geometry.budget import Cancelled
@@ -95,6 +110,7 @@ def worker_main(conn, shared, budget_limit, parent_pid) -> None:
     threading.Thread(target=_watch_parent, args=(parent_pid,), daemon=True).start()
     flag = JobFlag(shared)
     host = AnalysisHost(budget_limit, cancel=flag)
+    _warm_up()
     while True:
         try:
             job_id, kind, uri, text, args = conn.recv()

@@ -26,8 +26,26 @@ from ..syntax import ast as A
 from ..syntax.parser import parse
 from ..syntax.text import LineIndex
 from . import values as V
-from .diagnostics import Diagnostic, Fix, Related, Sink, sort_key
+from .diagnostics import Diagnostic, Fix, Related, Sink, shifted, sort_key
 from .engine import Engine
+
+# Evaluations remembered across analyses (an edited file is analysed again from scratch): for a
+# statement whose evaluation reads nothing but its own text and the values of the names it uses,
+# the value and the diagnostics it reported (spans relative to the statement) are a function of
+# (statement type, statement text, the kinds and values of those names, the budget).  So an edit
+# re-evaluates only the edited statement and what uses a value that changed.
+_MEMO_TYPES = (A.LatticeStmt, A.ConeDef, A.ConeLet, A.MapStmt, A.CharactersStmt)
+_MEMO: dict[tuple, tuple] = {}
+_MEMO_MAX = 20_000
+
+def clear_memo() -> None:
+    """Forget the remembered evaluations (see ``_MEMO``); the next analysis evaluates all.
+
+    >>> clear_memo(); Analysis("lattice N = Z^2").value("N").space.rank
+    2
+    """
+    _MEMO.clear()
+
 
 KIND_ARTICLE = {"lattice": "a lattice", "cone": "a cone", "map": "a map", "morphism": "a morphism",
                 "characters": "a list of characters", "fan": "a fan"}
@@ -73,6 +91,7 @@ class Analysis:
         self.expects: list[A.Expect] = []
         self.refs: list[Ref] = []
         self.deps: dict[str, set[str]] = {}
+        self._used: dict[str, list[str]] = {}       # definition -> every name its statement uses
         self.in_cycle: set[str] = set()
         self._values: dict[str, object] = {}
         self._evaluating: set[str] = set()
@@ -102,6 +121,8 @@ class Analysis:
         return st.kind if st is not None else None
 
     def _use(self, name: A.Name, expected: str | None, owner: str | None) -> None:
+        if owner is not None:
+            self._used.setdefault(owner, []).append(name.text)
         target = name.text if name.text in self.defs else None
         self.refs.append(Ref(name, expected, target, owner))
         if target is None:
@@ -234,7 +255,7 @@ class Analysis:
             return None
         self._evaluating.add(name)
         try:
-            val = self._evaluate(st)
+            val = self._evaluate_remembered(st)
         except EvalError:
             val = None
         except (BudgetExceeded, Cancelled) as exc:
@@ -253,6 +274,47 @@ class Analysis:
         finally:
             self._evaluating.discard(name)
         self._values[name] = val
+        return val
+
+    def _evaluate_remembered(self, st):
+        """``_evaluate(st)``, or its value and diagnostics remembered from an earlier analysis
+        of the same statement text with the same values of the names it uses (see ``_MEMO``)."""
+        if not isinstance(st, _MEMO_TYPES):
+            return self._evaluate(st)
+        used = self._used.get(st.name.text, ())
+        # the values of the used names enter the key by identity (hashing them is slow); the
+        # entry keeps them alive, so an id in a key always means that very object
+        dep_values = tuple(self.value(n) for n in used)
+        key = (type(st), self.text[st.span[0]:st.span[1]], self.engine.budget_limit,
+               tuple((n, self.kind_of(n), id(v)) for n, v in zip(used, dep_values)))
+        hit = _MEMO.get(key)
+        base = st.span[0]
+        if hit is not None:
+            _MEMO[key] = _MEMO.pop(key)        # most recently used last
+            val, diags, _ = hit
+            for d in diags:
+                self.sink.add_diagnostic(shifted(d, base) if base else d)
+            if val is None:
+                raise EvalError("remembered failure")
+            return val
+        outer, self.sink.recording = self.sink.recording, []
+        own = self.sink.recording
+        try:
+            val = self._evaluate(st)
+        except EvalError:
+            val = None
+        finally:
+            self.sink.recording = outer
+            if outer is not None:
+                outer.extend(own)
+        lo, hi = st.span
+        if all(lo <= sp[0] and sp[1] <= hi for d in own
+               for sp in [d.span, *(r.span for r in d.related), *(f.span for f in d.fixes)]):
+            _MEMO[key] = (val, tuple(shifted(d, -base) if base else d for d in own), dep_values)
+            if len(_MEMO) > _MEMO_MAX:
+                del _MEMO[next(iter(_MEMO))]
+        if val is None:
+            raise EvalError("evaluation failed")
         return val
 
     def evaluate_all(self) -> None:

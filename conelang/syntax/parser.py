@@ -45,9 +45,20 @@ def _parser() -> Lark:
 
 _TREES: "OrderedDict[str, Tree]" = OrderedDict()
 _TREES_MAX = 50_000
-# typed statements by (text, offset): nodes are immutable, so a statement that neither changed
-# nor moved is shared between successive parses of an edited file
-_BUILT: "OrderedDict[tuple[str, int], object]" = OrderedDict()
+# typed statements by their text, with the offset they were built at: nodes are immutable, so a
+# statement that did not change is shared between successive parses of an edited file, and one
+# that only moved (an edit above it) is a shifted copy, which is much cheaper than building it
+_BUILT: "OrderedDict[str, tuple[object, int]]" = OrderedDict()
+
+
+def clear_caches() -> None:
+    """Forget the remembered parse trees and typed statements (the next parse builds all).
+
+    >>> clear_caches(); parse("lattice N = Z^2").statements[0].name.text
+    'N'
+    """
+    _TREES.clear()
+    _BUILT.clear()
 
 
 def _parse_piece(piece: str) -> Tree:
@@ -94,8 +105,13 @@ def parse(text: str) -> A.Module:
     module = A.Module()
     for start, end in split_statements(text):
         piece = text[start:end]
-        built = _BUILT.get((piece, start))
-        if built is not None:            # the same statement at the same place: reuse its nodes
+        hit = _BUILT.get(piece)
+        if hit is not None:              # the same statement: reuse its nodes, shifted if it moved
+            built, at = hit
+            if at != start:
+                built = shift_node(built, start - at)
+                _BUILT[piece] = (built, start)
+            _BUILT.move_to_end(piece)
             module.statements.append(built)
             continue
         try:
@@ -109,7 +125,7 @@ def parse(text: str) -> A.Module:
         try:
             built = _Builder(start).statement(tree.children[0])
             module.statements.append(built)
-            _BUILT[(piece, start)] = built
+            _BUILT[piece] = (built, start)
             if len(_BUILT) > _TREES_MAX:
                 _BUILT.popitem(last=False)
         except _BuildError as exc:
@@ -117,6 +133,35 @@ def parse(text: str) -> A.Module:
         except RecursionError:
             module.errors.append(A.SyntaxError_("statement is nested too deeply", (start, end), (start, end)))
     return module
+
+
+def shift_node(node, delta: int):
+    """A copy of the typed node ``node`` with every span moved by ``delta`` characters.
+
+    >>> m = parse("cone c = dual d")
+    >>> shift_node(m.statements[0], 10).expr.inner.name
+    Name(text='d', span=(24, 25))
+    """
+    cls = type(node)
+    new = object.__new__(cls)
+    d = new.__dict__
+    for key, val in node.__dict__.items():
+        if key == "span" or key == "statement_span":
+            val = (val[0] + delta, val[1] + delta)
+        elif type(val) in _NODE_TYPES:
+            val = shift_node(val, delta)
+        elif type(val) is tuple and val:
+            first = type(val[0])
+            if first in _NODE_TYPES:
+                val = tuple(shift_node(v, delta) for v in val)
+            elif key == "indices":              # IndexList: (index, span) pairs
+                val = tuple((i, (sp[0] + delta, sp[1] + delta)) for i, sp in val)
+        d[key] = val
+    return new
+
+
+_NODE_TYPES = frozenset(c for c in vars(A).values()
+                        if isinstance(c, type) and hasattr(c, "__dataclass_fields__") and c is not A.Module)
 
 
 # ---- errors ----------------------------------------------------------------------------
