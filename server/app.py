@@ -213,6 +213,7 @@ class ConeServer(LanguageServer):
             self.cache_put(("diagnostics", key), full)
             self.publish(uri, full)
             self.last_full[uri] = (text, full, None)     # expectation spans: when first needed
+            _settle_garbage()
         except asyncio.CancelledError:
             raise
         except JobCancelled:
@@ -253,6 +254,19 @@ class ConeServer(LanguageServer):
                     out.append(_shifted(d, shift))
                     break
         return out
+
+
+def _settle_garbage() -> None:
+    """At a quiet moment (the diagnostics were just published): collect the young garbage
+    (a few ms), then hide the survivors from the collector.  Otherwise the objects that the
+    analyses keep (typed statements, remembered results) grow the oldest generation, and a
+    full collection over them blocks the event loop for 50-120 ms at a random moment.  What
+    is frozen is still freed when no longer referenced; only reference cycles among frozen
+    objects would never be collected, and an analysis makes none (they are freed by reference
+    counting)."""
+    import gc
+    gc.collect(1)
+    gc.freeze()
 
 
 def _consume(fut) -> None:

@@ -32,10 +32,11 @@ class Positions:
 
     def position(self, offset: int) -> tuple[int, int]:
         line, col = self.index.position(offset)
-        if self.encoding == "utf-32":
+        if self.encoding == "utf-32" or self.index.is_ascii:
             return line, col
         start = self.index.starts[line]
-        return line, self._units(self.index.text[start:start + col])
+        prefix = self.index.text[start:start + col]
+        return line, col if prefix.isascii() else self._units(prefix)
 
     def offset(self, line: int, column: int) -> int:
         ix = self.index
@@ -46,7 +47,7 @@ class Positions:
         if line >= len(ix.starts):
             return len(ix.text)
         column = max(0, column)
-        if self.encoding == "utf-32":
+        if self.encoding == "utf-32" or ix.is_ascii:
             return ix.offset(line, column)
         text = ix.line_text(line)
         units = 0

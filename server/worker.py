@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import collections
 import concurrent.futures as cf
+import gc
 import itertools
 import multiprocessing as mp
 import os
@@ -92,7 +93,6 @@ def _warm_up() -> None:
     """Build the parser and import what the jobs use, then hide everything alive so far from
     the garbage collector (``gc.freeze``), so that a full collection in the middle of a job
     walks the objects the jobs made, not the ~70 000 of the imported libraries (45 ms)."""
-    import gc
     try:
         from conelang.semantics import facts, properties  # noqa: F401
         from conelang.syntax.parser import parse
@@ -135,6 +135,8 @@ def worker_main(conn, shared, budget_limit, parent_pid) -> None:
             os._exit(0)
         except Exception as exc:  # an answer that does not pickle
             conn.send(("error", f"cannot send the result: {type(exc).__name__}: {exc}"))
+        gc.collect(1)          # between jobs: keep full collections out of the next job (see _warm_up)
+        gc.freeze()
 
 
 # ---- in the server ---------------------------------------------------------------------------

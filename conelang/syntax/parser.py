@@ -44,7 +44,10 @@ def _parser() -> Lark:
 
 
 _TREES: "OrderedDict[str, Tree]" = OrderedDict()
-_TREES_MAX = 50_000
+# the typed statements below are what an edit reuses; a tree is needed again only when its
+# statement could not be built (or its typed nodes were evicted), so few trees are kept
+_TREES_MAX = 2_000
+_BUILT_MAX = 50_000
 # typed statements by their text, with the offset they were built at: nodes are immutable, so a
 # statement that did not change is shared between successive parses of an edited file, and one
 # that only moved (an edit above it) is a shifted copy, which is much cheaper than building it
@@ -126,7 +129,7 @@ def parse(text: str) -> A.Module:
             built = _Builder(start).statement(tree.children[0])
             module.statements.append(built)
             _BUILT[piece] = (built, start)
-            if len(_BUILT) > _TREES_MAX:
+            if len(_BUILT) > _BUILT_MAX:
                 _BUILT.popitem(last=False)
         except _BuildError as exc:
             module.errors.append(A.SyntaxError_(exc.message, exc.span, (start, end)))

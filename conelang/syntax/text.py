@@ -23,6 +23,18 @@ class LineIndex:
             starts.append(i + 1)
             i = find("\n", i + 1)
 
+    @property
+    def is_ascii(self) -> bool:
+        """True when the text is ASCII: then columns in characters, UTF-16 and UTF-8 agree.
+
+        >>> LineIndex("ab").is_ascii, LineIndex("é").is_ascii
+        (True, False)
+        """
+        a = self.__dict__.get("_ascii")
+        if a is None:
+            a = self._ascii = self.text.isascii()
+        return a
+
     def position(self, offset: int) -> tuple[int, int]:
         offset = max(0, min(offset, len(self.text)))
         line = bisect.bisect_right(self.starts, offset) - 1
