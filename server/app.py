@@ -213,6 +213,7 @@ class ConeServer(LanguageServer):
             self.cache_put(("diagnostics", key), full)
             self.publish(uri, full)
             self.last_full[uri] = (text, full, None)     # expectation spans: when first needed
+            self.host.analysis(uri)     # parse and resolve now, while idle: the next request is quick
             _settle_garbage()
         except asyncio.CancelledError:
             raise

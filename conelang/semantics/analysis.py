@@ -290,7 +290,8 @@ class Analysis:
         hit = _MEMO.get(key)
         base = st.span[0]
         if hit is not None:
-            _MEMO[key] = _MEMO.pop(key)        # most recently used last
+            _MEMO.pop(key, None)               # most recently used last
+            _MEMO[key] = hit
             val, diags, _ = hit
             for d in diags:
                 self.sink.add_diagnostic(shifted(d, base) if base else d)
@@ -312,7 +313,10 @@ class Analysis:
                for sp in [d.span, *(r.span for r in d.related), *(f.span for f in d.fixes)]):
             _MEMO[key] = (val, tuple(shifted(d, -base) if base else d for d in own), dep_values)
             if len(_MEMO) > _MEMO_MAX:
-                del _MEMO[next(iter(_MEMO))]
+                try:
+                    del _MEMO[next(iter(_MEMO))]
+                except (KeyError, RuntimeError, StopIteration):   # another thread got there first
+                    pass
         if val is None:
             raise EvalError("evaluation failed")
         return val

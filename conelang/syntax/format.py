@@ -338,10 +338,11 @@ def _format_statement(tokens: list[_Code]) -> list[str]:
     return p.lines
 
 
-def _normal_form(text: str):
+def _normal_form(text: str, items=None):
     """The tokens that formatting must keep, in order (commas, blanks and the comments'
-    trailing spaces do not count)."""
-    items = _items(text)
+    trailing spaces do not count); ``items``: ``_items(text)`` when already at hand."""
+    if items is None:
+        items = _items(text)
     if items is None:
         return None
     out = []
@@ -370,6 +371,7 @@ def format_text(text: str) -> str:
     items = _items(text)
     if items is None:
         return text
+    want = _normal_form(text, items)      # before the layout touches the tokens
     newline = "\r\n" if "\r\n" in text else "\n"
     lines: list[str] = []
     for blank, item in items:
@@ -381,7 +383,7 @@ def format_text(text: str) -> str:
             lines.extend(_format_statement(item.tokens))
     out = newline.join(lines) + newline if lines else ""
     # a formatter must never change what a file says: check before answering
-    if _normal_form(out) != _normal_form(text) or parse(out).errors:
+    if _normal_form(out) != want or parse(out).errors:
         return text
     return out
 
