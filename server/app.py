@@ -326,7 +326,11 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
     def initialize(ls: ConeServer, params: T.InitializeParams):
         ls.configure(params.initialization_options)
         ls.start_worker()
-        _warm_up(ls)
+
+    @ls.feature(T.INITIALIZED)
+    @safe()
+    def initialized(ls: ConeServer, params: T.InitializedParams):
+        _warm_up(ls)     # after the answer to initialize: that answer's types are then known too
 
     @ls.feature(T.SHUTDOWN)
     @safe()
@@ -700,7 +704,9 @@ def _warm_up(ls: ConeServer) -> None:
             T.TEXT_DOCUMENT_INLAY_HINT: {"textDocument": doc, "range": rng},
             T.TEXT_DOCUMENT_CODE_ACTION: {"textDocument": doc, "range": rng, "context": {"diagnostics": []}},
         }
-        for method, params in requests.items():
+        # the converter forgets its generated functions each time it meets a new type, so go
+        # over all of them twice: the second pass leaves every function in place
+        for method, params in [*requests.items()] * 2:
             conv.structure({"jsonrpc": "2.0", "id": 0, "method": method, "params": params},
                            T.METHOD_TO_TYPES[method][0])
         r = T.Range(start=T.Position(line=0, character=0), end=T.Position(line=0, character=1))
@@ -722,14 +728,19 @@ def _warm_up(ls: ConeServer) -> None:
                                                        edit=T.WorkspaceEdit(changes={"file:///w.cone": [
                                                            T.TextEdit(range=r, new_text="")]}))],
         }
-        for method, result in results.items():
-            json.dumps(conv.unstructure(T.METHOD_TO_TYPES[method][1](id=0, result=result, jsonrpc="2.0")))
+        from pygls.protocol.json_rpc import JsonRPCResponseMessage   # what answers are sent as
         diag = T.Diagnostic(range=r, message="x", severity=T.DiagnosticSeverity.Warning, code="x", source="conelang",
                             related_information=[T.DiagnosticRelatedInformation(location=loc, message="x")],
                             tags=[T.DiagnosticTag.Unnecessary])
         json.dumps(conv.unstructure(T.PublishDiagnosticsNotification(
             method=T.TEXT_DOCUMENT_PUBLISH_DIAGNOSTICS, jsonrpc="2.0",
             params=T.PublishDiagnosticsParams(uri="file:///w.cone", diagnostics=[diag], version=1))))
+        for _ in range(2):
+            for result in results.values():
+                json.dumps(conv.unstructure(JsonRPCResponseMessage(id=0, result=result, jsonrpc="2.0")))
+            json.dumps(conv.unstructure(T.PublishDiagnosticsNotification(
+                method=T.TEXT_DOCUMENT_PUBLISH_DIAGNOSTICS, jsonrpc="2.0",
+                params=T.PublishDiagnosticsParams(uri="file:///w.cone", diagnostics=[diag], version=1))))
     except Exception:
         log.exception("warm-up failed (harmless)")
     gc.collect()
