@@ -186,8 +186,9 @@ class ConeServer(LanguageServer):
     async def diagnose(self, uri: str, delay: float) -> None:
         """Publish the diagnostics of ``uri`` after ``delay`` seconds (the debounce).
 
-        The worker computes all of them (expectations included).  The event loop does not
-        analyse the file meanwhile: on two cores that only slowed the worker down.  When the
+        The worker computes all of them (expectations included).  After an edit the event loop
+        does not analyse the file meanwhile: on two cores that only slowed the worker down (on
+        the first check of a file it does, since the worker starts cold).  When the
         worker takes longer than ``diagnostics_wait`` (a heavy expectation), the cheap
         diagnostics are computed here and published first, with the previous results of the
         unchanged expectations carried over, and the full ones replace them when they come."""
@@ -202,10 +203,14 @@ class ConeServer(LanguageServer):
                 self.publish(uri, cached)
                 return
             _, fut = self.heavy("diagnostics", uri)
+            # the first check of a file: its worker analysis starts cold and is slow, so the
+            # cheap part is done here meanwhile, ready when diagnostics_wait runs out
+            cheap = self.host.diagnostics(uri, expectations=False) if uri not in self.last_full else None
             try:
                 full = await asyncio.wait_for(asyncio.shield(fut), self.diagnostics_wait)
             except asyncio.TimeoutError:
-                cheap = self.host.diagnostics(uri, expectations=False)
+                if cheap is None:
+                    cheap = self.host.diagnostics(uri, expectations=False)
                 self.publish(uri, cheap + self.carried_over(uri, cheap))
                 full = await asyncio.shield(fut)
             if self.host.text(uri) != text:
