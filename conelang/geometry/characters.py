@@ -38,7 +38,7 @@ from . import linalg
 from .budget import Budget, ensure
 from .cone import Cone, cone_from_rays, dual
 from .linalg import Vec, dot
-from .monoid import _hilbert_basis_full, _reduce_mod_hnf, grading, pointed_model
+from .monoid import _reduce_mod_hnf, grading, hilbert_basis_pointed, pointed_model
 from .toric import Binomial, binomial_string, toric_ideal
 
 __all__ = ["CharacterAnalysis", "analyse_characters", "MAX_HOLES", "MAX_POINTS"]
@@ -153,7 +153,7 @@ def _holes(coords: list[Vec], g: int, to_ambient, budget: Budget
     def add_label(c1: Vec, c2: Vec) -> Vec:
         return _reduce_mod_hnf(tuple(a + b for a, b in zip(c1, c2)), H)
 
-    hb = _hilbert_basis_full(m.cone, budget, what) if k else []
+    hb = hilbert_basis_pointed(m.cone, budget, what) if k else []
     # degree 0: the classes of L / H other than H itself are holes
     holes: list[Vec] = sorted((to_ambient(c) for c in reps if any(c)), reverse=True)
     holes = holes[:MAX_HOLES]
