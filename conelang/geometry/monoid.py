@@ -272,6 +272,8 @@ _NUMPY_FROM = 5000        # total parallelepiped points from which the vectorise
 _CHUNK = 1 << 16
 _REDUCERS = 64            # low-degree points used to discard most candidates at once
 _INT64_SAFE = 1 << 62
+_SIMPLICIAL_NUMPY = 48    # index from which a simplicial cone is reduced vectorised
+_SIMPLICIAL_SAFE = 1 << 24  # ... and up to which (δ^2 k stays inside int64, memory stays small)
 _QUICK = 128              # dual method: low-degree elements tried first on every sum
 _PAIR_CHUNK = 1 << 15     # dual method: sums formed at once
 _BITSET_BYTES = 1 << 23   # dual method: largest bitset tables of the reducibility test
@@ -289,6 +291,9 @@ def _hilbert_basis_full(c: Cone, budget: Budget, what: str) -> list[Vec]:
     gens = [[rays[i] for i in s] for s in simplices]
     dets = [abs(linalg.det(g)) for g in gens]
     total = sum(dets)
+    if len(gens) == 1 and _SIMPLICIAL_NUMPY <= total <= _SIMPLICIAL_SAFE:
+        budget.check(total * k, what, f"about {total} lattice points to enumerate")
+        return _hilbert_basis_simplicial(gens[0], total, budget, what)
     nf = len(c.facets)
     detail = f"about {total} lattice points to enumerate"
     if total >= _NUMPY_FROM and _numpy_safe(gens, dets, c.facets):
@@ -304,6 +309,39 @@ def _hilbert_basis_full(c: Cone, budget: Budget, what: str) -> list[Vec]:
             if dt > 1:
                 cand.update(p for p in parallelepiped_points(g, budget, what) if any(p))
     return _reduce_candidates(c, cand, budget, what)
+
+
+def _hilbert_basis_simplicial(g: Sequence[Vec], det: int, budget: Budget, what: str) -> list[Vec]:
+    """Hilbert basis of the simplicial cone ``cone(g_1, ..., g_k)`` (independent, spanning
+    Q^k, ``det = |det g|``), vectorised.  A point ``x = Σ λ_i g_i`` is handled through the
+    integer vector ``δ λ`` (``δ`` the largest Smith invariant): ``x - y`` is in the cone iff
+    ``λ(y) <= λ(x)`` coordinatewise, so the reduction needs no facet values, and only the
+    survivors are turned into points.
+
+    >>> sorted(_hilbert_basis_simplicial([(0, 1), (7, -3)], 7, Budget(None), "h"))
+    [(0, 1), (1, 0), (3, -1), (5, -2), (7, -3)]
+    """
+    import numpy as np
+
+    k = len(g)
+    D, U, _ = linalg.smith(g, k)
+    ds = [D[i][i] for i in range(k)]
+    delta = ds[-1]
+    nontriv = [i for i in range(k) if ds[i] > 1]
+    steps = np.array([[x * (delta // ds[i]) % delta for x in U[i]] for i in nontriv], dtype=np.int64)
+    budget.tick(det * k // 8 + 1, what, f"about {det} lattice points to enumerate")
+    coeffs = np.indices([ds[i] for i in nontriv], dtype=np.int64).reshape(len(nontriv), -1).T
+    lam = np.zeros((len(coeffs), k), dtype=np.int64)
+    for j in range(len(nontriv)):                     # Σ c_j step_j mod δ, term by term
+        lam = (lam + coeffs[:, j:j + 1] * steps[j][None, :]) % delta
+    lam = lam[lam.any(axis=1)]
+    lam = np.concatenate([lam, delta * np.eye(k, dtype=np.int64)])
+    A = np.concatenate([lam, np.zeros((len(lam), 1), dtype=np.int64)], axis=1)
+    keep = ~_reducible_within(A, lam.sum(axis=1), np.arange(k), k)
+    out = []
+    for row in lam[keep].tolist():
+        out.append(tuple(sum(row[i] * g[i][j] for i in range(k)) // delta for j in range(k)))
+    return out
 
 
 def _reduce_candidates(c: Cone, cand, budget: Budget, what: str) -> list[Vec]:

@@ -346,3 +346,20 @@ def test_magic_squares_hilbert_bases():
     for i in range(0, len(H), 512):
         le = (H[None, :, :] <= H[i:i + 512, None, :]).all(axis=2)
         assert le.sum(axis=1).tolist() == [1] * len(H[i:i + 512])
+
+
+@settings(max_examples=40, deadline=None)
+@given(st.integers(2, 4).flatmap(lambda d: pointed_full_generators(d, d)), st.booleans())
+def test_simplicial_vectorised_path_vs_brute_force(gens, use_dual):
+    # simplicial cones (and their duals) through the vectorised reduction in λ-coordinates
+    from unittest import mock
+    import conelang.geometry.monoid as M
+    c = cone_from_rays(gens, len(gens[0]))
+    if use_dual:
+        c = dual(c)
+    with mock.patch.object(M, "_SIMPLICIAL_NUMPY", 1):
+        hb = hilbert_basis(c)
+    if c.ambient_dim <= 3:
+        assert hb == hilbert_basis_bruteforce(c, _caratheodory_bound(c))
+    with mock.patch.object(M, "_SIMPLICIAL_NUMPY", 10 ** 12):
+        assert hilbert_basis(c) == hb
