@@ -330,10 +330,12 @@ def _hilbert_basis_simplicial(g: Sequence[Vec], det: int, budget: Budget, what: 
     nontriv = [i for i in range(k) if ds[i] > 1]
     steps = np.array([[x * (delta // ds[i]) % delta for x in U[i]] for i in nontriv], dtype=np.int64)
     budget.tick(det * k // 8 + 1, what, f"about {det} lattice points to enumerate")
-    coeffs = np.indices([ds[i] for i in nontriv], dtype=np.int64).reshape(len(nontriv), -1).T
-    lam = np.zeros((len(coeffs), k), dtype=np.int64)
-    for j in range(len(nontriv)):                     # Σ c_j step_j mod δ, term by term
-        lam = (lam + coeffs[:, j:j + 1] * steps[j][None, :]) % delta
+    lam = np.zeros((0, k), dtype=np.int64)
+    if nontriv:
+        coeffs = np.indices([ds[i] for i in nontriv], dtype=np.int64).reshape(len(nontriv), -1).T
+        lam = np.zeros((len(coeffs), k), dtype=np.int64)
+        for j in range(len(nontriv)):                 # Σ c_j step_j mod δ, term by term
+            lam = (lam + coeffs[:, j:j + 1] * steps[j][None, :]) % delta
     lam = lam[lam.any(axis=1)]
     lam = np.concatenate([lam, delta * np.eye(k, dtype=np.int64)])
     A = np.concatenate([lam, np.zeros((len(lam), 1), dtype=np.int64)], axis=1)
