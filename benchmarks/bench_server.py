@@ -60,7 +60,10 @@ def in_process_baseline(text: str, edits: list[str]) -> list[float]:
     return out
 
 
-HEAVY = "lattice H = Z^4\ncone heavy in H { rays (1,0,0,0) (0,1,0,0) (0,0,1,0) (17,29,23,101) }\n"
+# a heavy Hilbert basis (about ten seconds): the dual of a simplicial cone of index 37, whose
+# parallelepiped has 37^4 points; its double description is trivial
+HEAVY = ("lattice H = Z^5\ncone heavy in H { rays (1,0,0,0,0) (0,1,0,0,0) (0,0,1,0,0) (0,0,0,1,0) "
+         "(3,5,7,11,37) }\n")
 DEBOUNCE_MS = 150
 
 
@@ -135,7 +138,10 @@ async def main(lines: int) -> None:
         hovers.append(ms)
     print(f"hover (warm): p50 {percentile(hovers, .5):.0f} ms, p95 {percentile(hovers, .95):.0f} ms (goal <= 20 ms)")
 
-    # responsiveness while a heavy computation runs in the worker
+    # responsiveness while a heavy computation runs in the worker.  One completion answer first,
+    # on the other file: the client builds its deserialiser for completion answers then, which
+    # would otherwise be counted as server latency.
+    await client.text_document_completion_async(T.CompletionParams(text_document=doc, position=at("expect c40 ", 11)))
     heavy_uri = "file:///tmp/heavy.cone"
     client.text_document_did_open(T.DidOpenTextDocumentParams(text_document=T.TextDocumentItem(
         uri=heavy_uri, language_id="cone", version=1, text=HEAVY + "expect heavy generators = 1\n")))
@@ -154,8 +160,7 @@ async def main(lines: int) -> None:
           f"(goal: the event loop never blocked > 50 ms)")
     worst = sorted(range(len(lat)), key=lambda i: -lat[i])[:3]
     print(f"  detail: p50 {percentile(lat, .5):.0f} ms, p95 {percentile(lat, .95):.0f} ms, "
-          f"max after the first request {max(lat[1:]):.0f} ms (the first is also this client's first "
-          f"completion answer); slowest sent at "
+          f"max after the first request {max(lat[1:]):.0f} ms; slowest sent at "
           + ", ".join(f"{when[i]:.0f} ms after the open ({lat[i]:.0f} ms)" for i in worst))
     samples = []
     for _ in range(5):

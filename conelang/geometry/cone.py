@@ -182,8 +182,9 @@ def _dd_pointed(A: list[Vec], k: int, budget: Budget) -> list[Vec]:
             masks = [m | b if v == 0 else m for m, v in zip(masks, vals)]
             continue
         pos = [j for j, v in enumerate(vals) if v > 0]
-        budget.tick(len(pos) * len(neg) * max(1, len(rays)), "double description",
-                    f"{len(rays)} intermediate rays")
+        # one unit per candidate pair, plus the rays actually scanned by the adjacency tests
+        budget.tick(len(pos) * len(neg), "double description", f"{len(rays)} intermediate rays")
+        scanned = 0
         new_rays: list[Vec] = []
         new_masks: list[int] = []
         for j, v in enumerate(vals):
@@ -205,12 +206,14 @@ def _dd_pointed(A: list[Vec], k: int, budget: Budget) -> list[Vec]:
                     if t != p and t != q and (mt & common) == common:
                         adjacent = False
                         break
+                scanned += t + 1
                 if not adjacent:
                     continue
                 vp, vq = vals[p], vals[q]
                 r = tuple(vp * y - vq * x for x, y in zip(rays[p], rays[q]))
                 new_rays.append(primitive(r))
                 new_masks.append(common | b)
+        budget.tick(scanned, "double description", f"{len(rays)} intermediate rays")
         rays, masks = new_rays, new_masks
     return rays
 

@@ -19,6 +19,11 @@ Method (for a pointed cone)
    irreducible candidate ``y``; "smaller" refers to a positive grading (the sum of the facet
    normals), which makes one pass in increasing degree sufficient.
 
+Simplicial cones skip steps 2-3's facet values: they are reduced in the coordinates λ of
+the parallelepiped (:func:`_hilbert_basis_simplicial`).  Cones with more rays than facets use
+the dual method instead, Pottier's completion one facet at a time
+(:func:`_hilbert_basis_dual`); :func:`hilbert_basis_pointed` makes the choice.
+
 Cones with lineality
 --------------------
 For a cone that is not pointed, let ``L = lin(σ) ∩ Z^d`` (its lineality lattice, rank ``l``)
@@ -273,7 +278,7 @@ _CHUNK = 1 << 16
 _REDUCERS = 64            # low-degree points used to discard most candidates at once
 _INT64_SAFE = 1 << 62
 _SIMPLICIAL_NUMPY = 48    # index from which a simplicial cone is reduced vectorised
-_SIMPLICIAL_SAFE = 1 << 24  # ... and up to which (δ^2 k stays inside int64, memory stays small)
+_SIMPLICIAL_SAFE = 1 << 20  # ... and up to which (δ^2 k stays inside int64, memory stays small)
 _QUICK = 128              # dual method: low-degree elements tried first on every sum
 _PAIR_CHUNK = 1 << 15     # dual method: sums formed at once
 _BITSET_BYTES = 1 << 23   # dual method: largest bitset tables of the reducibility test
@@ -339,7 +344,18 @@ def _hilbert_basis_simplicial(g: Sequence[Vec], det: int, budget: Budget, what: 
     lam = lam[lam.any(axis=1)]
     lam = np.concatenate([lam, delta * np.eye(k, dtype=np.int64)])
     A = np.concatenate([lam, np.zeros((len(lam), 1), dtype=np.int64)], axis=1)
-    keep = ~_reducible_within(A, lam.sum(axis=1), np.arange(k), k)
+    deg = lam.sum(axis=1)
+    cols = np.arange(k)
+    # the lowest-degree points discard most of the others at once (a reducer of smaller
+    # degree is never the point itself) ...
+    low = np.argsort(deg, kind="stable")[:_QUICK]
+    budget.tick(len(A) * len(low) // 256 + 1, what, f"about {det} lattice points")
+    below = np.searchsorted(deg[low], deg, side="left")
+    alive = ~_Reducers(A[low], cols, k)(A, below)
+    lam, A, deg = lam[alive], A[alive], deg[alive]
+    # ... and the survivors reduce each other
+    budget.tick(len(A) * len(A) // 256 + 1, what, f"{len(A)} candidates")
+    keep = ~_reducible_within(A, deg, cols, k)
     out = []
     for row in lam[keep].tolist():
         out.append(tuple(sum(row[i] * g[i][j] for i in range(k)) // delta for j in range(k)))
