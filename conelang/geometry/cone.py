@@ -56,7 +56,7 @@ __all__ = [
     "Cone", "Vec", "extreme_rays", "cone_from_rays", "cone_from_inequalities", "zero_cone",
     "full_space", "dual", "face", "faces", "is_face", "intersection", "contains",
     "relative_interior_point", "is_in_interior", "a_line_in", "redundant_generators",
-    "redundant_inequalities", "facet_ray_incidence",
+    "redundant_inequalities", "facet_ray_incidence", "simplicial_rays",
 ]
 
 
@@ -147,6 +147,26 @@ def _popcount(x: int) -> int:
     return x.bit_count()
 
 
+def simplicial_rays(normals: Sequence[Vec]) -> list[Vec]:
+    """The primitive rays of the simplicial cone ``{x : <a, x> >= 0 for a in normals}`` (k
+    independent normals in Z^k): the primitive columns of the inverse matrix; the i-th ray
+    lies on every hyperplane but the i-th.
+
+    >>> simplicial_rays([(1, 0), (1, 2)])
+    [(2, -1), (0, 1)]
+    """
+    inv = linalg.inverse_rational(normals)
+    k = len(normals)
+    out = []
+    for col in range(k):
+        v = [inv[r][col] for r in range(k)]
+        den = 1
+        for x in v:
+            den = lcm(den, x.denominator)
+        out.append(primitive(int(x * den) for x in v))
+    return out
+
+
 def _dd_pointed(A: list[Vec], k: int, budget: Budget) -> list[Vec]:
     """Extreme rays of the pointed cone ``{y in Q^k : A y >= 0}``; ``A`` must have rank k."""
     if k == 0:
@@ -159,17 +179,9 @@ def _dd_pointed(A: list[Vec], k: int, budget: Budget) -> list[Vec]:
             if len(basis) == k:
                 break
     assert len(basis) == k, "inequality system of the pointed part must have full rank"
-    inv = linalg.inverse_rational([A[j] for j in basis])
-    rays: list[Vec] = []
-    masks: list[int] = []
+    rays: list[Vec] = simplicial_rays([A[j] for j in basis])
     bit = {j: 1 << pos for pos, j in enumerate(basis)}
-    for c in range(k):
-        col = [inv[r][c] for r in range(k)]
-        den = 1
-        for x in col:
-            den = lcm(den, x.denominator)
-        rays.append(primitive(int(x * den) for x in col))
-        masks.append(sum(bit[basis[j]] for j in range(k) if j != c))
+    masks: list[int] = [sum(bit[basis[j]] for j in range(k) if j != c) for c in range(k)]
     rest = [i for i in range(len(A)) if i not in bit]
     nbits = k
     for i in rest:

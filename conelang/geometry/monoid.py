@@ -47,7 +47,7 @@ from typing import Sequence
 
 from . import linalg
 from .budget import Budget, ensure
-from .cone import Cone, contains, cone_from_rays
+from .cone import Cone, contains, cone_from_rays, simplicial_rays
 from .linalg import Vec, dot, primitive
 
 __all__ = [
@@ -507,28 +507,13 @@ def _start_facets(c: Cone, budget: Budget) -> tuple[list[int], int]:
                 if len(chosen) == k:
                     break
         budget.tick(len(facets) * k * k, "Hilbert basis", "choosing a start cone")
-        gens = _simplicial_rays([facets[j] for j in chosen])
+        gens = simplicial_rays([facets[j] for j in chosen])
         index = abs(linalg.det(gens))
         if best is None or index < best[0]:
             best = (index, sorted(chosen))
         if index == 1:
             break
     return best[1], best[0]
-
-
-def _simplicial_rays(normals: Sequence[Vec]) -> list[Vec]:
-    """The primitive rays of the simplicial cone ``{x : <a, x> >= 0 for a in normals}`` (k
-    independent normals in Z^k): the primitive columns of the inverse matrix, in order."""
-    inv = linalg.inverse_rational(normals)
-    k = len(normals)
-    out = []
-    for col in range(k):
-        v = [inv[r][col] for r in range(k)]
-        den = 1
-        for x in v:
-            den = lcm(den, x.denominator)
-        out.append(primitive(int(x * den) for x in v))
-    return out
 
 
 class _Reducers:
@@ -645,7 +630,7 @@ def _hilbert_basis_dual(c: Cone, budget: Budget, what: str) -> list[Vec]:
     m = len(facets)
     start, index = _start_facets(c, budget)
     budget.check(index * (2 * k * k + m * k), what, f"a start cone with {index} lattice points")
-    simplex = cone_from_rays(_simplicial_rays([facets[j] for j in start]), k, budget=budget)
+    simplex = cone_from_rays(simplicial_rays([facets[j] for j in start]), k, budget=budget)
     H0 = _hilbert_basis_full(simplex, budget, what)
     Y = [[dot(u, h) for u in facets] for h in H0]
     if max((abs(x) for y in Y for x in y), default=0) > _DUAL_SAFE:

@@ -23,6 +23,7 @@ from conelang.geometry.cone import (
     facet_ray_incidence, faces, full_space, intersection, is_face, is_in_interior,
     redundant_generators, redundant_inequalities, relative_interior_point, zero_cone,
 )
+from references import magic_square_constraints
 from strategies import cone_inputs, inequality_inputs, pointed_full_generators, vectors
 
 SETTINGS = settings(max_examples=60, deadline=None)
@@ -615,12 +616,8 @@ def test_second_description_read_off_agrees_with_a_second_double_description(inp
 
 
 def _magic_squares(n):
-    """Nonnegative n x n squares whose rows, columns and two diagonals have equal sums."""
-    d = n * n
-    lines = [[i * n + j for j in range(n)] for i in range(n)] + [[i * n + j for i in range(n)] for j in range(n)]
-    lines += [[i * n + i for i in range(n)], [i * n + n - 1 - i for i in range(n)]]
-    eqs = [tuple((k in lines[0]) - (k in line) for k in range(d)) for line in lines[1:]]
-    return cone_from_inequalities([tuple(int(k == m) for k in range(d)) for m in range(d)], eqs, d)
+    ineqs, eqs = magic_square_constraints(n)
+    return cone_from_inequalities(ineqs, eqs, n * n)
 
 
 @pytest.mark.parametrize("n,rays", [(3, 4), (4, 20), (5, 1940)])

@@ -15,7 +15,7 @@ from conelang.geometry.monoid import (
     triangulate,
 )
 from strategies import pointed_full_generators
-from references import hirzebruch_jung as _hirzebruch_jung
+from references import hirzebruch_jung as _hirzebruch_jung, magic_square_constraints
 
 
 def _caratheodory_bound(c) -> int:
@@ -319,12 +319,8 @@ def test_dual_method_on_large_values_agrees_with_triangulation():
 
 
 def _magic_squares(n):
-    """Nonnegative n x n squares whose rows, columns and two diagonals have equal sums."""
-    d = n * n
-    lines = [[i * n + j for j in range(n)] for i in range(n)] + [[i * n + j for i in range(n)] for j in range(n)]
-    lines += [[i * n + i for i in range(n)], [i * n + n - 1 - i for i in range(n)]]
-    eqs = [tuple((k in lines[0]) - (k in line) for k in range(d)) for line in lines[1:]]
-    return cone_from_inequalities([tuple(int(k == m) for k in range(d)) for m in range(d)], eqs, d)
+    ineqs, eqs = magic_square_constraints(n)
+    return cone_from_inequalities(ineqs, eqs, n * n)
 
 
 def test_magic_squares_hilbert_bases():
