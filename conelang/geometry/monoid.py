@@ -280,7 +280,8 @@ _INT64_SAFE = 1 << 62
 _SIMPLICIAL_NUMPY = 48    # index from which a simplicial cone is reduced vectorised
 _SIMPLICIAL_SAFE = 1 << 20  # ... and up to which (δ^2 k stays inside int64, memory stays small)
 _QUICK = 128              # dual method: low-degree elements tried first on every sum
-_PAIR_CHUNK = 1 << 15     # dual method: sums formed at once
+_PAIR_CHUNK = 1 << 20     # dual method: entries of the sums formed at once (8 MB)
+_BLOCK_BOOLS = 1 << 22    # dual method: booleans of one block of the plain reducibility test
 _BITSET_BYTES = 1 << 23   # dual method: largest bitset tables of the reducibility test
 _BITSET_ROWS = 4096       # dual method: candidates tested at once against the bitsets
 _DUAL_SAFE = 1 << 40      # dual method: largest facet value (sums stay far inside int64)
@@ -575,16 +576,17 @@ class _Reducers:
             return out
         RP, Rt = self.RP, self.Rt
         idx = np.arange(self.n)
-        for b0 in range(0, len(cands), 64):
-            S = cands[b0:b0 + 64]
+        rows = max(1, _BLOCK_BOOLS // max(1, self.n * len(cols)))     # bounded memory
+        for b0 in range(0, len(cands), rows):
+            S = cands[b0:b0 + rows]
             le = (RP[None, :, :] <= S[:, cols][:, None, :]).all(axis=2)
             st = S[:, t][:, None]
             side = np.where(st >= 0, (Rt[None, :] >= 0) & (Rt[None, :] <= st),
                             (Rt[None, :] <= 0) & (Rt[None, :] >= st))
             hit = le & side
             if below is not None:
-                hit &= idx[None, :] < below[b0:b0 + 64, None]
-            out[b0:b0 + 64] = hit.any(axis=1)
+                hit &= idx[None, :] < below[b0:b0 + rows, None]
+            out[b0:b0 + rows] = hit.any(axis=1)
         return out
 
 
@@ -661,7 +663,7 @@ def _hilbert_basis_dual(c: Cone, budget: Budget, what: str) -> list[Vec]:
             full = _Reducers(G, cols, t)
             found = []
             for A, B in pairs:
-                step = max(1, _PAIR_CHUNK // len(B))
+                step = max(1, _PAIR_CHUNK // (len(B) * m))
                 for a0 in range(0, len(A), step):
                     S = (A[a0:a0 + step, None, :] + B[None, :, :]).reshape(-1, m)
                     # one unit per 256 comparisons of a sum with a reducer (they are bit-parallel)
