@@ -325,9 +325,8 @@ def _magic_squares(n):
 
 def test_magic_squares_hilbert_bases():
     # Hilbert bases of the magic squares of order 3, 4, 5 have 5, 20 and 4828 elements
-    # (M. Ahmed, Polyhedral geometry of magic squares; the 5 x 5 count also in Bruns–Ichim–
-    # Söger, computations of Hilbert bases; from memory).  The order-3 basis: the four
-    # extremal squares plus the constant square; both are checked as magic squares below.
+    # (M. Ahmed, Polyhedral geometry of magic squares, from memory).  The order-3 basis is the four
+    # extremal squares plus the constant square (same source).
     hb3 = hilbert_basis(_magic_squares(3))
     assert len(hb3) == 5 and (1,) * 9 in hb3
     assert len(hilbert_basis(_magic_squares(4))) == 20
