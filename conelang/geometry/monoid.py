@@ -568,14 +568,14 @@ class _Reducers:
         cols, t = self.cols, self.t
         if self.tables is not None:
             SP = np.minimum(cands[:, cols], self.vmax)
-            St = np.clip(cands[:, t], self.tlo, self.thi) - self.tlo
+            St = np.minimum(np.maximum(cands[:, t], self.tlo), self.thi) - self.tlo
             starts = np.arange(self.words, dtype=np.int64) * 64
             for b0 in range(0, len(cands), _BITSET_ROWS):
                 acc = self.side[St[b0:b0 + _BITSET_ROWS]]
                 if below is not None:
                     # bits 0 .. below-1 (little-endian bit order within each word)
                     bl = below[b0:b0 + _BITSET_ROWS, None] - starts[None, :]
-                    part = np.left_shift(np.uint64(1), np.clip(bl, 0, 63).astype(np.uint64)) - np.uint64(1)
+                    part = np.left_shift(np.uint64(1), np.minimum(np.maximum(bl, 0), 63).astype(np.uint64)) - np.uint64(1)
                     acc = acc & np.where(bl >= 64, np.uint64(~np.uint64(0)), np.where(bl <= 0, np.uint64(0), part))
                 for j, tab in enumerate(self.tables):
                     acc &= tab[SP[b0:b0 + _BITSET_ROWS, j]]
