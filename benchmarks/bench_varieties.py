@@ -7,7 +7,10 @@
 * The Hilbert basis of the cone of 5x5 magic squares (4828 elements, from memory; goal: under a
   minute on 2 cores) with --magic, since it is long.
 
-Run: python benchmarks/bench_varieties.py [--magic]
+* Both Hilbert basis methods on random cones, on each side of the rule that chooses between them
+  (--choice).
+
+Run: python benchmarks/bench_varieties.py [--magic] [--choice]
 """
 from __future__ import annotations
 
@@ -66,6 +69,46 @@ def bench_hilbert() -> None:
     print(f"Hilbert basis, total ratio brute force / ours: {total_bf / total_fast:.0f}x (goal >= 100x)")
 
 
+def bench_method_choice(trials: int = 40, seed: int = 3) -> None:
+    """Both Hilbert basis methods on random non-simplicial cones of dimension 3 and 4 (and their
+    duals), grouped by the rule of ``monoid.hilbert_basis_pointed`` (dual method iff more rays
+    than facets).  A method that goes over a budget of 2M steps counts as that budget's time
+    (measured at about a microsecond per step), so a blow-up does not stall the benchmark."""
+    import random
+    from conelang.geometry.budget import Budget, BudgetExceeded
+
+    rnd = random.Random(seed)
+    sums = {True: [0.0, 0.0, 0, 0], False: [0.0, 0.0, 0, 0]}     # primal s, dual s, cases, dual wins
+
+    def run(fn, c):
+        t = time.perf_counter()
+        try:
+            fn(c, Budget(2_000_000), "Hilbert basis")
+        except BudgetExceeded:
+            return max(time.perf_counter() - t, 2.0)
+        return time.perf_counter() - t
+
+    for _ in range(trials):
+        d = rnd.randint(3, 4)
+        r = rnd.choice([2, 4, 6])
+        gens = [tuple(rnd.randint(-r, r) for _ in range(d)) for _ in range(rnd.randint(d + 1, d + 6))]
+        c = gcone.cone_from_rays(gens, d)
+        if not (c.pointed and c.full) or c.simplicial:
+            continue
+        for x in (c, gcone.dual(c)):
+            side = len(x.rays) > len(x.facets)
+            tp, td = run(monoid._hilbert_basis_full, x), run(monoid._hilbert_basis_dual, x)
+            acc = sums[side]
+            acc[0] += tp
+            acc[1] += td
+            acc[2] += 1
+            acc[3] += td < tp
+    for side, (tp, td, n, wins) in sums.items():
+        label = "more rays than facets (dual method chosen)" if side else "rays <= facets (triangulation chosen)"
+        print(f"  {label}: {n} cones, triangulation {tp:.2f} s, dual method {td:.2f} s, "
+              f"dual faster on {wins}")
+
+
 def sympy_rational_normal(d: int):
     s, t = sympy.symbols("s t")
     zs = sympy.symbols(f"z0:{d + 1}")
@@ -120,9 +163,12 @@ def bench_magic() -> None:
 def main() -> None:
     ap = argparse.ArgumentParser()
     ap.add_argument("--magic", action="store_true", help="also the 5x5 magic squares (long)")
+    ap.add_argument("--choice", action="store_true", help="also both Hilbert basis methods on random cones (long)")
     args = ap.parse_args()
     bench_hilbert()
     bench_equations()
+    if args.choice:
+        bench_method_choice()
     if args.magic:
         bench_magic()
 

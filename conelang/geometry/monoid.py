@@ -712,8 +712,10 @@ def hilbert_basis_pointed(c: Cone, budget: Budget | None = None, what: str = "Hi
     suits its shape: the dual method (:func:`_hilbert_basis_dual`) when the cone has more
     rays than facets and is not simplicial (a triangulation would have many simplices, the
     completion adds few inequalities), the triangulation with parallelepipeds otherwise.
-    Measured on random cones of dimension 3 and 4 (``benchmarks/bench_varieties.py``), each
-    method is the faster one on its side of this rule, often by two orders of magnitude.
+    Measured on random cones of dimension 3 and 4 (``bench_varieties.py --choice``): with
+    more rays than facets the dual method takes 4.3 s in total against 6.5 s, 5-35x faster
+    on cones whose triangulation has a large volume and a few milliseconds slower on small
+    ones; otherwise the triangulation takes 0.27 s against 12.8 s.
 
     >>> sorted(hilbert_basis_pointed(cone_from_rays([(1, 0), (1, 2)], 2)))
     [(1, 0), (1, 1), (1, 2)]

@@ -358,3 +358,24 @@ def test_simplicial_vectorised_path_vs_brute_force(gens, use_dual):
         assert hb == hilbert_basis_bruteforce(c, _caratheodory_bound(c))
     with mock.patch.object(M, "_SIMPLICIAL_NUMPY", 10 ** 12):
         assert hilbert_basis(c) == hb
+
+
+def test_dual_method_falls_back_to_the_triangulation_when_values_are_too_large(monkeypatch):
+    # a cone with more rays than facets goes to the dual method; when its facet values would
+    # leave the safe integer range it falls back, with the same answer as brute force
+    import conelang.geometry.monoid as M
+    # the cone over the box [0,1] x [0,1] x [0,2]: 8 rays, 6 facets
+    c = cone_from_rays([(x, y, 2 * z, 1) for x in (0, 1) for y in (0, 1) for z in (0, 1)], 4)
+    assert len(c.rays) > len(c.facets) and not c.simplicial
+    calls = []
+    real = M._hilbert_basis_dual
+
+    def spy(*args):
+        calls.append(1)
+        return real(*args)
+
+    monkeypatch.setattr(M, "_hilbert_basis_dual", spy)
+    monkeypatch.setattr(M, "_DUAL_SAFE", 0)
+    hb = hilbert_basis(c)
+    assert calls, "the dual method was not tried"
+    assert hb == hilbert_basis_bruteforce(c, _caratheodory_bound(c))
