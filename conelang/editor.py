@@ -151,7 +151,7 @@ def _property_hover(a, offset: int):
     return None
 
 
-def object_markdown(a, name: str, heavy: bool = True) -> str | None:
+def object_markdown(a, name: str, heavy: bool = True, equations: bool = True) -> str | None:
     """Markdown for the definition ``name``: its computed facts (see render.markdown).
 
     >>> from conelang.semantics.analysis import Analysis
@@ -162,7 +162,7 @@ def object_markdown(a, name: str, heavy: bool = True) -> str | None:
     from .semantics.facts import object_facts
     if name not in a.defs:
         return None
-    facts = object_facts(a, name, heavy)
+    facts = object_facts(a, name, heavy, equations)
     if facts is None:
         return f"`{name}`: {a.kind_of(name)} (has errors)"
     md = render_object(name, facts, level=3)
@@ -506,11 +506,11 @@ def _summary_variety(a, c) -> dict | None:
             raise
         except Exception:
             return None
-    var = guard(lambda: a.engine.variety(c))
-    if var is None:
+    gens = guard(lambda: a.engine.coordinates(c))
+    if gens is None:
         return None
     gi = guard(lambda: a.engine.invariant("gorenstein_index", c))
-    return {"generators": var.generators, "smooth": guard(lambda: a.engine.invariant("is_smooth", c)),
+    return {"generators": gens, "smooth": guard(lambda: a.engine.invariant("is_smooth", c)),
             "gorenstein": gi == 1, "gorenstein_index": gi}
 
 

@@ -145,8 +145,8 @@ class AnalysisHost:
         """What a heavy hover at ``offset`` still has to compute (None: the hover is cheap)."""
         return editor.hover_pending(self.analysis(uri), offset)
 
-    def object_markdown(self, uri: str, name: str, heavy: bool = True) -> str | None:
-        return editor.object_markdown(self.analysis(uri), name, heavy)
+    def object_markdown(self, uri: str, name: str, heavy: bool = True, equations: bool = True) -> str | None:
+        return editor.object_markdown(self.analysis(uri), name, heavy, equations)
 
     def completions(self, uri: str, offset: int) -> list:
         return editor.completions(self.analysis(uri), offset)

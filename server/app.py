@@ -403,12 +403,17 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
             key = fingerprint(ls.host.text(uri))
             full = ls.cache_get(("markdown", key, name))
             if full is None:
+                # the full facts, and before them (queued in front) everything but the equations
                 _, fut = ls.heavy("markdown", uri, name, interactive=True)
+                _, quick = ls.heavy("markdown_quick", uri, name, interactive=True)
                 try:
                     full = await asyncio.wait_for(asyncio.shield(fut), ls.hover_wait)
                     ls.cache_put(("markdown", key, name), full)
                 except asyncio.TimeoutError:
-                    md += f"\n\n*computing… ({pending})*"
+                    if quick.done() and not quick.cancelled() and quick.exception() is None:
+                        md = quick.result() + "\n\n*computing… (the binomial equations)*"
+                    else:
+                        md += f"\n\n*computing… ({pending})*"
                 except JobCancelled:
                     md += "\n\n*the computation was interrupted by an edit; hover again*"
                 except WorkerFailed as exc:

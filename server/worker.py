@@ -71,6 +71,7 @@ def _job_sleep(host, uri, seconds):
 JOBS = {
     "diagnostics": lambda host, uri: host.diagnostics(uri, True),
     "markdown": lambda host, uri, name: host.object_markdown(uri, name, True),
+    "markdown_quick": lambda host, uri, name: host.object_markdown(uri, name, True, False),
     "inlay": lambda host, uri: host.inlay_hints(uri, True),
     "pin": lambda host, uri, name: host.pin_results(uri, name),
     "ping": lambda host, uri: "pong",

@@ -108,8 +108,6 @@ def analyse_characters(chars: Sequence[Sequence[int]], budget: Budget | None = N
             raise ValueError(f"character {u} has length {len(u)}, expected {n}")
     cone = cone_from_rays(chars, n, budget=budget)
     limit_cone = dual(cone)
-    binomials = toric_ideal(chars, budget) if chars else ()
-    equations = tuple(binomial_string(p, m) for p, m in binomials)
     Gb = linalg.hnf(chars, n) if chars else ()
     g = len(Gb)
     group_index = linalg.lattice_index(Gb, n) if Gb else 1
@@ -124,6 +122,10 @@ def analyse_characters(chars: Sequence[Sequence[int]], budget: Budget | None = N
             assert x is not None
             coords.append(tuple(x))
         normal, holes = _holes(coords, g, lambda x: linalg.vec_mat(x, Gb, n), budget)
+    # a normal pointed monoid: its minimal binomials are read off the fibers (toric_ideal)
+    facets = cone.facets if normal and cone.pointed else None
+    binomials = toric_ideal(chars, budget, facets=facets) if chars else ()
+    equations = tuple(binomial_string(p, m) for p, m in binomials)
     return CharacterAnalysis(chars, n, Gb, g, everything, group_index, cone, limit_cone,
                              normal, holes, binomials, equations)
 

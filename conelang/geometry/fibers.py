@@ -38,10 +38,14 @@ import numpy as np
 
 from .budget import Budget, ensure
 
-__all__ = ["normal_toric_ideal", "facet_values", "WHAT"]
+__all__ = ["normal_toric_ideal", "facet_values", "TooLarge", "WHAT"]
 
 WHAT = "toric ideal"
 _BLOCK = 4_000_000          # numpy entries per block of a vectorised test
+
+
+class TooLarge(ValueError):
+    """Facet values too large for int64 arithmetic (the caller takes another method)."""
 
 
 def facet_values(gens: Sequence[Sequence[int]], facets: Sequence[Sequence[int]]) -> np.ndarray:
@@ -53,7 +57,7 @@ def facet_values(gens: Sequence[Sequence[int]], facets: Sequence[Sequence[int]])
     vals = [[sum(a * b for a, b in zip(f, g)) for f in facets] for g in gens]
     big = max((abs(x) for row in vals for x in row), default=0)
     if big * max(len(gens), 1) * 4 >= 2 ** 62:
-        raise ValueError("facet values too large for the fiber method")
+        raise TooLarge("facet values too large for the fiber method")
     return np.array(vals, dtype=np.int64).reshape(len(gens), len(facets))
 
 

@@ -681,8 +681,12 @@ def toric_ideal(gens: Sequence[Sequence[int]], budget: Budget | None = None,
         return tuple(p), tuple(m)
 
     if facets is not None and method != "groebner":
-        res = sorted((embed(b) for b in fibers.normal_toric_ideal(sub, facets, budget)), key=_sort_key)
-        return tuple(out_zero) + tuple(res)
+        try:
+            found = fibers.normal_toric_ideal(sub, facets, budget)
+        except fibers.TooLarge:          # facet values beyond int64: the exact Buchberger path
+            pass
+        else:
+            return tuple(out_zero) + tuple(sorted((embed(b) for b in found), key=_sort_key))
     basis = lattice_basis(sub, n)
     if not basis:
         return tuple(out_zero)

@@ -38,3 +38,17 @@ def cone_summary(o: dict) -> str:
 
 def torus_action_lines(var: dict) -> list[str]:
     return [f"z{i} ↦ {m}·z{i}" for i, m in enumerate(var.get("torus_action", []), 1)]
+
+
+def missing_equations(o: dict) -> str:
+    """Why a cone's variety has no ``equations`` key: over budget (an ``errors`` entry) or not
+    yet computed (the editor shows the cheap facts first).
+
+    >>> missing_equations({"errors": ["equations: too large"]})
+    'not computed (see the errors below)'
+    >>> missing_equations({})
+    'still being computed'
+    """
+    if any(e.startswith("equations:") for e in o.get("errors", [])):
+        return "not computed (see the errors below)"
+    return "still being computed"

@@ -19,6 +19,8 @@ from __future__ import annotations
 import re
 from fractions import Fraction
 
+from .common import missing_equations
+
 PREAMBLE = r"""\documentclass{article}
 \usepackage{amsmath,amssymb}
 \allowdisplaybreaks
@@ -170,7 +172,9 @@ def _cone(n: str, o: dict) -> list[str]:
                  rf" \subseteq \mathbb{{C}}^{{{r}}}$ has dimension {var['dimension']} and coordinates")
         L.append(r"\[ " + r",\quad ".join(rf"z_{{{i}}} = \chi^{{{vector(g)}}}" for i, g in
                                           enumerate(var["generators"], 1)) + r" \]")
-        if var["equations"]:
+        if "equations" not in var:
+            L.append(f"(equations: {missing_equations(o)}).")
+        elif var["equations"]:
             L.append("with the equations")
             L += _align([f"{poly(e)} &= 0" for e in var["equations"]])
         else:

@@ -1,7 +1,7 @@
 """Markdown output: ``conelang show --format markdown`` and the editor's hover."""
 from __future__ import annotations
 
-from .common import cone_summary, torus_action_lines, vec, vecs, yesno
+from .common import missing_equations, cone_summary, torus_action_lines, vec, vecs, yesno
 
 
 def render(doc: dict) -> str:
@@ -44,7 +44,9 @@ def render_object(name: str, o: dict, level: int = 2) -> str:
             L.append("")
             L.append("generators of σ^∨ ∩ M: " + ", ".join(f"z{i} = χ^{vec(g)}" for i, g in enumerate(var["generators"], 1)))
             L.append("")
-            if var["equations"]:
+            if "equations" not in var:
+                L.append("equations: " + missing_equations(o))
+            elif var["equations"]:
                 L.append("equations:\n```\n" + "\n".join(var["equations"]) + "\n```")
             else:
                 L.append("equations: none (U is an affine space times a torus)")

@@ -1,7 +1,7 @@
 """Plain text output of the computed facts (``conelang show``)."""
 from __future__ import annotations
 
-from .common import cone_summary, torus_action_lines, vec, vecs, yesno
+from .common import missing_equations, cone_summary, torus_action_lines, vec, vecs, yesno
 
 
 def render(doc: dict) -> str:
@@ -34,7 +34,8 @@ def render_object(name: str, o: dict) -> list[str]:
             lines.append(f"  affine toric variety U_{name} in C^{var['embedding_dimension']} (dimension {var['dimension']})")
             for i, g in enumerate(var["generators"], 1):
                 lines.append(f"    z{i} = χ^{vec(g)}")
-            lines.append("    equations: " + (", ".join(var["equations"]) or "none"))
+            lines.append("    equations: " + (", ".join(var["equations"]) or "none") if "equations" in var
+                         else "    equations: " + missing_equations(o))
             lines.append("    torus action: " + ", ".join(torus_action_lines(var)))
             lines.append(f"    smooth: {yesno(var['smooth'])}, simplicial: {yesno(var['simplicial'])}, "
                          f"Gorenstein: {yesno(var['gorenstein'])}, Gorenstein index: "

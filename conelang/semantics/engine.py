@@ -100,7 +100,7 @@ class Engine:
         self.require_pointed(cone)
         return self.cached("resolve", fan.resolve, cone)
 
-    def _coordinates(self, cone):
+    def coordinates(self, cone):
         """The generators z1..zr of the affine toric variety of a pointed cone: the Hilbert basis
         of its dual, which is the order of ``toric.affine_toric_variety`` (taken directly, so
         that pullbacks do not wait for the toric ideal)."""
@@ -126,7 +126,7 @@ class Engine:
         from ..geometry import maps
         kinds = self.morphism_kinds(value)
         matrix, s, t = value.map.matrix, value.source.cone, value.target.cone
-        sg, tg = self._coordinates(s), self._coordinates(t)
+        sg, tg = self.coordinates(s), self.coordinates(t)
         exps = self.cached("pullback_exponents", maps.pullback_exponents, matrix, s, t, sg, tg)
         return {"pullbacks": [maps.monomial_string(a) for a in exps],
                 "pullback_exponents": [list(a) for a in exps],

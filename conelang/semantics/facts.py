@@ -30,15 +30,17 @@ def _user(space: V.Space, coords) -> list:
     return jvec(space.from_coords(coords))
 
 
-def object_facts(analysis, name: str, heavy: bool = True) -> dict | None:
-    """The facts of the definition ``name`` (None when it has errors)."""
+def object_facts(analysis, name: str, heavy: bool = True, equations: bool = True) -> dict | None:
+    """The facts of the definition ``name`` (None when it has errors).  ``heavy=False`` leaves
+    out everything that may be slow; ``equations=False`` leaves out only the binomial equations
+    of a cone's variety (the editor shows the rest first)."""
     value = analysis.value(name)
     if value is None:
         return None
     if isinstance(value, V.LatticeValue):
         return lattice_facts(value)
     if isinstance(value, V.ConeValue):
-        return cone_facts(analysis, value, heavy)
+        return cone_facts(analysis, value, heavy, equations)
     if isinstance(value, V.MapValue):
         return map_facts(value, analysis.defs[name])
     if isinstance(value, V.MorphismValue):
@@ -77,7 +79,7 @@ def _guard(errors: list, what: str, fn):
     return None
 
 
-def cone_facts(analysis, value: V.ConeValue, heavy: bool = True) -> dict:
+def cone_facts(analysis, value: V.ConeValue, heavy: bool = True, equations: bool = True) -> dict:
     s, c = value.space, value.cone
     dual_space = s.dual()
     out = {
@@ -98,7 +100,7 @@ def cone_facts(analysis, value: V.ConeValue, heavy: bool = True) -> dict:
     if hb is not None:
         out["hilbert_basis"] = [_user(s, h) for h in hb]
     if c.pointed:
-        out["variety"] = variety_facts(analysis, value, errors)
+        out["variety"] = variety_facts(analysis, value, errors, equations)
     if c.ambient_dim == 2:
         out.update(window_facts(value, out))
     if errors:
@@ -106,21 +108,23 @@ def cone_facts(analysis, value: V.ConeValue, heavy: bool = True) -> dict:
     return out
 
 
-def variety_facts(analysis, value: V.ConeValue, errors: list) -> dict | None:
+def variety_facts(analysis, value: V.ConeValue, errors: list, equations: bool = True) -> dict | None:
+    """The affine toric variety's facts, field by field: its coordinates (the Hilbert basis of
+    σ^∨), torus action and invariants never wait for the equations, and equations that are over
+    budget leave out only ``equations`` and ``binomials`` (with an ``errors`` entry)."""
+    from ..geometry.toric import laurent_monomial_string
     s, c = value.space, value.cone
     eng = analysis.engine
-    var = _guard(errors, "affine toric variety", lambda: eng.variety(c))
-    if var is None:
+    gens = _guard(errors, "affine toric variety", lambda: eng.coordinates(c))
+    if gens is None:
         return None
     inv = lambda name: _guard(errors, name.replace("_", " "), lambda: eng.invariant(name, c))
     gi = inv("gorenstein_index")
     cg = inv("class_group")
     out = {
-        "generators": [_user(s.dual(), g) for g in var.generators],
-        "equations": list(var.equations),
-        "binomials": [[list(p), list(m)] for p, m in var.binomials],
-        "dimension": var.dimension,
-        "embedding_dimension": var.embedding_dimension,
+        "generators": [_user(s.dual(), g) for g in gens],
+        "dimension": c.ambient_dim,
+        "embedding_dimension": len(gens),
         "smooth": inv("is_smooth"),
         "simplicial": c.simplicial,
         "gorenstein": gi == 1,
@@ -128,8 +132,13 @@ def variety_facts(analysis, value: V.ConeValue, errors: list) -> dict | None:
         "gorenstein_index": gi,
         "class_group": group_string(cg) if cg is not None else None,
         "multiplicity": inv("multiplicity"),
-        "torus_action": list(var.torus_action),
+        "torus_action": [laurent_monomial_string(u) for u in gens],
     }
+    var = _guard(errors, "equations", lambda: eng.variety(c)) if equations else None
+    if var is not None:       # the keys in their documented order: generators, equations, binomials, …
+        eqs = {"equations": list(var.equations),
+               "binomials": [[list(p), list(m)] for p, m in var.binomials]}
+        out = {"generators": out.pop("generators"), **eqs, **out}
     if out["multiplicity"] is None:
         del out["multiplicity"]
     return out
