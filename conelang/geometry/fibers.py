@@ -172,7 +172,7 @@ def normal_toric_ideal(gens: Sequence[Sequence[int]], facets: Sequence[Sequence[
         if not parts:
             continue
         P = np.concatenate(parts)
-        budget.tick(len(P) * (r * F // 8 + 1), WHAT, f"{seen} degrees below the Betti bound")
+        budget.tick(len(P) * (r * F // 64 + 1), WHAT, f"{seen} degrees below the Betti bound")
         P = np.unique(P, axis=0)
         P = P[_in_region(P, K)]
         if not len(P):
@@ -181,7 +181,7 @@ def normal_toric_ideal(gens: Sequence[Sequence[int]], facets: Sequence[Sequence[
         levels[W] = P
         seen += len(P)
         Q, VQ = _without_hub(P, phi)
-        budget.tick(len(Q) * r * r * F // 8 + 1, WHAT, f"{seen} degrees below the Betti bound")
+        budget.tick(len(Q) * (r * r * F // 100 + 20), WHAT, f"{seen} degrees below the Betti bound")
         for b, vm in zip(Q, VQ):
             out.extend(_betti(b, vm, phi))
     out.sort(key=lambda g: (max(sum(g[0]), sum(g[1])), tuple(-x for x in g[0]), tuple(-x for x in g[1])))
