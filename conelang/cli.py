@@ -243,15 +243,16 @@ def main(argv: list[str] | None = None) -> int:
     except RecursionError:
         print("conelang: input nested too deeply", file=sys.stderr)
         return 2
+    except BrokenPipeError:   # the reader stopped early (`| head`): not an error
+        try:
+            devnull = os.open(os.devnull, os.O_WRONLY)
+            os.dup2(devnull, sys.stdout.fileno())      # so the final flush at exit is silent
+        except (OSError, ValueError):
+            pass
+        return 0
     except Exception as exc:  # the last line of defence: a message, never a traceback
         print(f"conelang: internal error: {type(exc).__name__}: {exc}", file=sys.stderr)
         return 2
-    except BrokenPipeError:
-        try:
-            sys.stdout = open(os.devnull, "w")
-        except OSError:
-            pass
-        return 1
 
 
 if __name__ == "__main__":

@@ -71,7 +71,7 @@ def _guard(errors: list, what: str, fn):
     except NotPointed:
         errors.append(f"{what}: the cone is not pointed")
     except BudgetExceeded as exc:
-        errors.append(f"{what}: {exc}")
+        errors.append(f"{what}: {exc}; pass a larger --budget (for example --budget {10 * exc.limit})")
     except NotAvailable as exc:
         errors.append(f"{what}: {exc}")
     except Exception as exc:  # never lose the other facts to one bug
