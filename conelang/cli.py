@@ -8,6 +8,7 @@ from __future__ import annotations
 import argparse
 import os
 import sys
+import time
 from pathlib import Path
 
 from .geometry import budget as gbudget
@@ -111,18 +112,65 @@ def _write_atomic(path: Path, text: str) -> None:
         raise
 
 
+class _Progress:
+    """What ``show`` is computing, on one rewritten line of stderr (only when it is a
+    terminal): the definition, the computation and, for long ones, seconds and work steps."""
+
+    def __init__(self, interval: float = 0.5):
+        import threading
+        self.name, self.what, self.budget, self.since = "", "", None, time.monotonic()
+        self._stop = threading.Event()
+        self._thread = threading.Thread(target=self._run, args=(interval,), daemon=True)
+        self._thread.start()
+
+    def __call__(self, what: str, budget) -> None:
+        if budget is None:
+            self.name, self.what = what, ""
+        else:
+            self.what, self.budget = what, budget
+        self.since = time.monotonic()
+
+    def _line(self) -> str:
+        took = time.monotonic() - self.since
+        used = getattr(self.budget, "used", 0) if self.what else 0
+        line = f"conelang: {self.name}: {self.what or 'facts'}"
+        if took >= 1:
+            line += f" … {took:.0f} s, {used:,} steps"
+        return line[:120]
+
+    def _run(self, interval: float) -> None:
+        shown = False
+        while not self._stop.wait(interval):
+            if time.monotonic() - self.since >= interval or shown:
+                sys.stderr.write("\r\033[K" + self._line())
+                sys.stderr.flush()
+                shown = True
+        if shown:
+            sys.stderr.write("\r\033[K")
+            sys.stderr.flush()
+
+    def close(self) -> None:
+        self._stop.set()
+        self._thread.join()
+
+
 def cmd_show(args) -> int:
     path = Path(args.path)
     if not path.is_file():
         raise UsageError(f"{args.path}: no such file")
-    host = AnalysisHost(args.budget)
+    progress = _Progress() if sys.stderr.isatty() else None
+    host = AnalysisHost(args.budget, progress=progress)
     uri = str(path)
     host.apply_change(uri, _read(path))
     a = host.analysis(uri)
     unknown = [n for n in args.names if n not in a.defs]
     if unknown:
         raise UsageError(f"{path}: no definition named {', '.join(unknown)}")
-    doc = host.document(uri, label=str(path), names=args.names or None)
+    try:
+        doc = host.document(uri, label=str(path), names=args.names or None)
+    finally:
+        if progress is not None:
+            progress.close()
     fmt = args.format
     if fmt == "json":
         from .render import json as r
@@ -137,9 +185,8 @@ def cmd_show(args) -> int:
     if fmt in ("text", "markdown"):
         for d in doc["diagnostics"]:
             print(f"{path}:{d['line']}:{d['column']}: {d['severity']}: {d['message']} [{d['code']}]", file=sys.stderr)
-    sys.stdout.write(r.render(doc))
-    if not r.render(doc).endswith("\n"):
-        sys.stdout.write("\n")
+    out = r.render(doc)
+    sys.stdout.write(out if out.endswith("\n") else out + "\n")
     return 1 if any(d["severity"] == "error" for d in doc["diagnostics"]) else 0
 
 

@@ -31,11 +31,15 @@ def diagnostic_json(d: Diagnostic, index) -> dict:
 
 
 class AnalysisHost:
-    def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT, cancel=None):
+    def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT, cancel=None, progress=None):
         """``cancel``: an object with ``is_set()`` (a threading or multiprocessing Event, or the
-        language server's per-job flag) that stops heavy computations when set."""
+        language server's per-job flag) that stops heavy computations when set.  ``progress``:
+        called as ``progress(what, budget)`` when a heavy computation starts (``what`` names the
+        computation; ``budget.used`` grows while it runs) and ``progress(name, None)`` when the
+        facts of the definition ``name`` are about to be computed."""
         self.budget_limit = budget_limit
         self.cancel = cancel
+        self.progress = progress
         self.texts: dict[str, str] = {}
         self._analyses: dict[str, Analysis] = {}
         self._indexes: dict[str, LineIndex] = {}
@@ -77,7 +81,7 @@ class AnalysisHost:
     def analysis(self, uri: str, engine: Engine | None = None) -> Analysis:
         a = self._analyses.get(uri)
         if a is None:
-            a = Analysis(self.texts.get(uri, ""), engine or Engine(self.budget_limit, self.cancel))
+            a = Analysis(self.texts.get(uri, ""), engine or Engine(self.budget_limit, self.cancel, self.progress))
             self._analyses[uri] = a
         return a
 
@@ -94,6 +98,8 @@ class AnalysisHost:
         for name, st in a.defs.items():
             if names and name not in names:
                 continue
+            if self.progress is not None:
+                self.progress(name, None)
             facts = object_facts(a, name, heavy)
             if facts is not None:
                 objects[name] = facts

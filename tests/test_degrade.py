@@ -43,3 +43,29 @@ def test_with_enough_budget_the_equations_come_back(tmp_path, capsys):
     main(["show", str(f), "--format", "json"])
     text = capsys.readouterr().out
     assert '"equations"' in text and text.count("z") > 65
+
+
+def test_show_says_what_it_computes_on_a_terminal_only(tmp_path):
+    """Progress goes to stderr when it is a terminal, never to stdout (which stays valid JSON)."""
+    import os
+    import pty
+    import subprocess
+    import sys
+    f = tmp_path / "slow.cone"
+    f.write_text("lattice N = Z^3 + 1/997 (1,100,300)\ncone q in N { rays (1,0,0) (0,1,0) (0,0,1) }\n")
+    master, slave = pty.openpty()
+    cmd = [sys.executable, "-m", "conelang.cli", "show", str(f), "--format", "json", "--budget", "6000000"]
+    p = subprocess.run(cmd, stdout=subprocess.PIPE, stderr=slave, timeout=300)
+    os.close(slave)
+    err = b""
+    try:
+        while chunk := os.read(master, 65536):
+            err += chunk
+    except OSError:
+        pass
+    os.close(master)
+    doc = json.loads(p.stdout)
+    assert "generators" in doc["objects"]["q"]["variety"]
+    assert b"conelang: q:" in err and b"conelang: q:" not in p.stdout
+    piped = subprocess.run(cmd, capture_output=True, timeout=300)
+    assert b"conelang: q:" not in piped.stderr

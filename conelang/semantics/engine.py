@@ -37,10 +37,17 @@ def clear_cache() -> None:
         _CACHE.clear()
 
 
+# what a progress line calls each cached computation (default: its name with spaces)
+_PROGRESS_LABELS = {"variety": "binomial equations", "resolve": "resolution",
+                    "characters": "torus action", "morphism": "toric morphism"}
+
+
 class Engine:
-    def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT, cancel: threading.Event | None = None):
+    def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT, cancel: threading.Event | None = None,
+                 progress=None):
         self.budget_limit = budget_limit
         self.cancel = cancel
+        self.progress = progress      # progress(what, budget) when a heavy computation starts
 
     def budget(self) -> Budget:
         return Budget(self.budget_limit, self.cancel)
@@ -51,7 +58,10 @@ class Engine:
             if key in _CACHE:
                 _CACHE.move_to_end(key)
                 return _CACHE[key]
-        result = fn(*args, budget=self.budget()) if budgeted else fn(*args)
+        budget = self.budget()
+        if self.progress is not None:
+            self.progress(_PROGRESS_LABELS.get(name, name.split(":")[-1].replace("_", " ")), budget)
+        result = fn(*args, budget=budget) if budgeted else fn(*args)
         with _LOCK:
             _CACHE[key] = result
             if len(_CACHE) > _CACHE_SIZE:
