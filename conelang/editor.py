@@ -13,13 +13,13 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass
-from fractions import Fraction
 
 from .geometry import cone as gcone
 from .geometry import linalg
 from .geometry.budget import Cancelled
 from .semantics import values as V
 from .semantics.diagnostics import Diagnostic
+from .semantics.forms import fmt_vec as _fmt
 from .syntax import ast as A
 from .syntax.format import KEYWORDS, SECTION_KEYWORDS, STATEMENT_KEYWORDS, tokenize
 
@@ -86,9 +86,6 @@ def _vector_at(a, offset: int):
     return None
 
 
-def _fmt(v) -> str:
-    return "(" + ", ".join(str(x.numerator) if Fraction(x).denominator == 1 else f"{x.numerator}/{x.denominator}"
-                           for x in map(Fraction, v)) + ")"
 
 
 def _vector_hover(a, offset: int):

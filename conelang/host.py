@@ -91,7 +91,7 @@ class AnalysisHost:
 
     def document(self, uri: str, label: str | None = None, names: list[str] | None = None,
                  heavy: bool = True) -> dict:
-        """The JSON document of LANGUAGE.md: file, diagnostics, objects."""
+        """The JSON document of docs/language.md: file, diagnostics, objects."""
         a = self.analysis(uri)
         diags = a.diagnostics(True)
         objects = {}

@@ -1,4 +1,4 @@
-"""The command line: exit codes, output format, JSON keys of LANGUAGE.md, and no tracebacks."""
+"""The command line: exit codes, output format, JSON keys of docs/language.md, and no tracebacks."""
 from __future__ import annotations
 
 import json

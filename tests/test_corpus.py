@@ -48,3 +48,71 @@ def test_check_exit_code_and_format(path: Path, capsys):
     assert "Traceback" not in out + err
     for line in out.splitlines():
         assert re.match(r"^.+:\d+:\d+: (error|warning|information|hint): .+ \[[a-z-]+\]$", line), line
+
+
+# ---- every diagnostic code has a corpus file ---------------------------------------------------
+ROOT = Path(__file__).parent.parent
+# Codes that honest input cannot produce: they are safety nets, tested below by simulating the
+# failure they catch.
+EXEMPT = {
+    "internal-error": "reported only when the engine itself has a bug",
+    "too-deep": "the parser refuses nesting ('statement is nested too deeply', a syntax "
+                "diagnostic, see tests/test_hostile.py) before evaluation could recurse that deep",
+}
+
+
+def code_table() -> set[str]:
+    """The codes of the table of diagnostic codes in DEVELOPERS.md (first column)."""
+    doc = (ROOT / "DEVELOPERS.md").read_text()
+    section = doc.split("## Diagnostic codes", 1)[1].split("\n## ", 1)[0]
+    codes = set()
+    for line in section.splitlines():
+        if line.startswith("| `"):
+            codes |= set(re.findall(r"`([a-z]+(?:-[a-z]+)*)`", line.split("|")[1]))
+    return codes
+
+
+def test_every_diagnostic_code_has_a_corpus_file():
+    intended = set()
+    for path in CORPUS:
+        intended |= {m.group(1) for m in INTENT.finditer(path.read_text())}
+    table = code_table()
+    assert len(table) >= 30
+    missing = sorted(table - intended - set(EXEMPT))
+    assert not missing, f"diagnostic codes without a file in tests/corpus/broken/: {missing}"
+    unknown = sorted(intended - table)
+    assert not unknown, f"corpus files state codes that are not in the table: {unknown}"
+    assert set(EXEMPT) <= table
+
+
+def _host_with(text: str) -> tuple[AnalysisHost, str]:
+    host = AnalysisHost()
+    host.apply_change("mem.cone", text)
+    return host, "mem.cone"
+
+
+def test_internal_error_is_reported_on_the_definition_and_the_rest_is_analysed(monkeypatch):
+    from conelang.semantics import analysis
+
+    def broken(self, st):
+        if st.name.text == "buggy":
+            raise ZeroDivisionError("simulated bug")
+        return original(self, st)
+    original = analysis.Analysis._evaluate
+    monkeypatch.setattr(analysis.Analysis, "_evaluate", broken)
+    host, uri = _host_with("lattice N = Z^2\ncone a in N { rays (1,0) (1,2) }\n"
+                           "cone buggy in N { rays (1,0) (0,7) }\nexpect a dim = 3\n")
+    got = [(d.code, d.message) for d in host.diagnostics(uri)]
+    assert ("internal-error", "internal error while evaluating 'buggy': ZeroDivisionError: simulated bug") in got
+    assert any(code == "expect-failed" for code, _ in got)       # 'a' is still checked
+
+
+def test_too_deep_is_reported_when_evaluation_recurses_too_far(monkeypatch):
+    from conelang.semantics import analysis
+
+    def deep(self, st):
+        raise RecursionError
+    monkeypatch.setattr(analysis.Analysis, "_evaluate", deep)
+    # texts of their own: the analysis remembers evaluations of statement texts it has seen
+    host, uri = _host_with("lattice DeepTest = Z^4\n")
+    assert [d.code for d in host.diagnostics(uri)] == ["too-deep"]

@@ -68,7 +68,7 @@ expect P2 simplicial
 def test_projective_plane_end_to_end():
     # CLS Example 3.1.9 and Theorem 4.1.3 / 4.2.? (from memory): P^2 is smooth and complete,
     # Pic = Cl = Z, with 3 fixed points, 3 invariant curves and the dense torus;
-    # LANGUAGE.md's own example ("orbits": [3, 3, 1]).
+    # the language reference's own example (docs/language.md) ("orbits": [3, 3, 1]).
     a, diags = analyse(P2)
     assert diags == []
     for pname, want in (("valid", True), ("complete", True), ("smooth", True), ("simplicial", True)):
@@ -287,7 +287,7 @@ def test_resolve_needs_a_pointed_cone():
 
 
 def test_json_keys_of_the_contract():
-    # LANGUAGE.md: the fan keys read by outside checks
+    # docs/language.md: the fan keys read by outside checks
     import io
     import contextlib
     import tempfile

@@ -25,7 +25,7 @@ def test_empty_character_list_is_the_trivial_action():
 
 def test_characters_normal_in_their_own_group():
     # (1,0) and (1,2) generate the index-2 lattice {b even}, in which the monoid they generate is
-    # saturated: normal (the definition in LANGUAGE.md); with (1,1) added instead of (1,2) also.
+    # saturated: normal (the definition in docs/language.md); with (1,1) added instead of (1,2) also.
     d = doc("lattice T = Z^2\ncharacters c of T { (1,0) (1,2) }\nexpect c normal\n"
             "characters g of T { (1,0) (1,3) (1,2) }\nexpect g not normal\n")
     assert errors(d) == []
@@ -46,7 +46,7 @@ def test_overlattice_dual_and_facets_are_in_the_dual_lattice():
 
 def test_variety_of_a_non_full_cone_has_units():
     # sigma = cone(e1) in Z^2: U = C x C^*, coordinate ring C[x, y, y^-1] (Cox–Little–Schenck,
-    # Example 1.2.? — the cone over a ray (from memory)); LANGUAGE.md: the units come as u, -u
+    # Example 1.2.? — the cone over a ray (from memory)); docs/language.md: the units come as u, -u
     # with the relation z_i*z_j - 1.
     d = doc("lattice N = Z^2\ncone r in N { rays (1,0) }\nexpect r generators = 3\nexpect r smooth\n")
     assert errors(d) == []

@@ -1,4 +1,4 @@
-"""JSON output (``conelang show --format json``): the document of LANGUAGE.md."""
+"""JSON output (``conelang show --format json``): the document described in docs/language.md."""
 from __future__ import annotations
 
 import json

@@ -26,8 +26,10 @@ from ..syntax import ast as A
 from ..syntax.parser import parse
 from ..syntax.text import LineIndex
 from . import values as V
-from .diagnostics import Diagnostic, Fix, Related, Sink, shifted, sort_key
+from .diagnostics import Diagnostic, EvalError, Fix, Related, Sink, shifted, sort_key
 from .engine import Engine
+from .forms import fan_cone_label, fmt_number, fmt_vec, violation_message  # noqa: F401 (fmt_* also used by facts)
+from .properties import check_expect
 
 # Evaluations remembered across analyses (an edited file is analysed again from scratch): for a
 # statement whose evaluation reads nothing but its own text and the values of the names it uses,
@@ -58,24 +60,6 @@ class Ref:
     expected: str | None         # kind expected at this place (None: any kind)
     target: str | None           # the defined name it resolves to, or None when unknown
     owner: str | None            # the definition this use belongs to (None for expectations)
-
-
-class EvalError(Exception):
-    """Evaluation of a definition failed; the diagnostic has already been reported."""
-
-
-def fmt_number(x) -> str:
-    x = Fraction(x)
-    return str(x.numerator) if x.denominator == 1 else f"{x.numerator}/{x.denominator}"
-
-
-def fmt_vec(v) -> str:
-    return "(" + ", ".join(fmt_number(x) for x in v) + ")"
-
-
-def fan_cone_label(indices) -> str:
-    """A cone of a fan as the user writes it: 0-based indices shown 1-based, ``[1 2]``."""
-    return "[" + " ".join(str(i + 1) for i in indices) + "]"
 
 
 class Analysis:
@@ -506,6 +490,11 @@ class Analysis:
                               fixes=(Fix(f"remove the redundant inequality {node.source()}", node.span, ""),))
         return V.ConeValue(space, cone)
 
+    def cone_expr(self, expr) -> V.ConeValue:
+        """The value of a cone expression of this file (``dual c``, ``f(c) & d``, …), for
+        the expectations; raises EvalError after reporting what is wrong."""
+        return self._cone_expr(expr)
+
     def _cone_expr(self, expr) -> V.ConeValue:
         if isinstance(expr, A.ConeRef):
             return self._need(expr.name)
@@ -606,7 +595,6 @@ class Analysis:
                    and ex.prop.text == "compatible" and ex.value is None for ex in self.expects)
 
     def _morphism(self, st: A.MorphismDef) -> V.MorphismValue:
-        from .properties import violation_message
         m = self._need(st.map)
         src, tgt = self._need(st.source), self._need(st.target)
         bad = False
@@ -636,7 +624,6 @@ class Analysis:
         return value
 
     def _compose(self, st: A.MorphismCompose) -> V.MorphismValue:
-        from .properties import violation_message
         parts = [self._need(p) for p in st.parts]   # g ∘ f: the last one is applied first
         for name, part in zip(st.parts, parts):
             message = violation_message(part)
@@ -746,7 +733,6 @@ class Analysis:
 
     # ------------------------------------------------------------------ expectations
     def check_expectations(self) -> None:
-        from .properties import check_expect
         for ex in self.expects:
             try:
                 check_expect(self, ex)

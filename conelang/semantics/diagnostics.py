@@ -12,6 +12,10 @@ Span = tuple[int, int]
 ERROR, WARNING, INFORMATION, HINT = "error", "warning", "information", "hint"
 
 
+class EvalError(Exception):
+    """Evaluation of a definition failed; the diagnostic has already been reported."""
+
+
 @dataclass(frozen=True)
 class Related:
     """Another place that explains a diagnostic (e.g. the definition that is violated)."""

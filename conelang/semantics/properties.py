@@ -23,8 +23,9 @@ from ..geometry import linalg
 from ..geometry import maps as gmaps
 from ..geometry.budget import BudgetExceeded, Cancelled
 from ..syntax import ast as A
-from .diagnostics import Related
+from .diagnostics import EvalError, Related
 from .engine import NotAvailable, NotPointed
+from .forms import fmt_vec, group_string, show_result, violation_message  # noqa: F401 (also used by facts)
 
 BOOL, INT, GROUP, OPT_INT, INTS = "yes/no", "integer", "abelian group", "integer or none", "list of integers"
 
@@ -154,29 +155,6 @@ for _name, _type, _doc, _fn in (
 # definition, and this expectation holds.  Such a value is not a morphism of varieties:
 # every other morphism property then reports that it cannot be checked, and composing it
 # is an error.  The kinds of morphism are decided by `conelang.geometry.maps.classify`.
-def violation_message(v) -> str | None:
-    """Why the map of a morphism value does not send the source into the target (user
-    coordinates: the ray, its image, the violated inequality or equation and its value), or
-    None when it does."""
-    from ..geometry import maps
-    from .analysis import fmt_vec
-    bad = maps.first_violation(v.map.matrix, v.source.cone, v.target.cone)
-    if bad is None:
-        return None
-    ray, img, normal, val, is_eq = bad
-    rv = fmt_vec(v.source.space.from_coords(ray))
-    iv = fmt_vec(v.target.space.from_coords(img))
-    nv = fmt_vec(v.target.space.dual().from_coords(normal))
-    if is_eq:
-        what = (f"which violates the equation <{nv}, v> = 0 of the span of '{v.target_name}': "
-                f"<{nv}, {iv}> = {val} ≠ 0")
-    else:
-        what = (f"which violates the inequality <{nv}, v> ≥ 0 of '{v.target_name}': "
-                f"<{nv}, {iv}> = {val} < 0")
-    return (f"'{v.map_name}' does not send '{v.source_name}' into '{v.target_name}': it sends the ray "
-            f"{rv} of '{v.source_name}' to {iv}, {what}")
-
-
 @prop("morphism", "compatible", BOOL, "the map sends the source cone into the target cone (f(σ) ⊆ τ)")
 def _compatible(a, v):
     from ..geometry import maps
@@ -212,8 +190,7 @@ def _fan_invariants(a, v):
     """The invariants of a fan value; NotAvailable (saying why) when it is not a fan."""
     check = a.engine.fan_check(v)
     if not check.valid:
-        from .analysis import fmt_vec
-        raise NotAvailable("it is not a fan: " + check.errors[0].message(lambda x: fmt_vec(v.space.from_coords(x))))
+            raise NotAvailable("it is not a fan: " + check.errors[0].message(lambda x: fmt_vec(v.space.from_coords(x))))
     return a.engine.fan_facts(v)
 
 
@@ -299,23 +276,6 @@ def parse_group(text: str):
     return (free, tuple(d for d in inv if d != 1))
 
 
-def group_string(g) -> str:
-    free, inv = g
-    return linalg.abelian_group_string(inv, free)
-
-
-def show_result(value) -> str:
-    if value is None:
-        return "none"
-    if isinstance(value, bool):
-        return "yes" if value else "no"
-    if isinstance(value, tuple) and len(value) == 2 and isinstance(value[1], tuple):
-        return f'"{group_string(value)}"'
-    if isinstance(value, tuple):
-        return "(" + ", ".join(map(str, value)) + ")"
-    return str(value)
-
-
 def compute(analysis, kind: str, name: str, value):
     """Evaluate one registered property (may raise NotPointed, BudgetExceeded, NotAvailable)."""
     return REGISTRY[(kind, name)].compute(analysis, value)
@@ -334,9 +294,8 @@ def check_expect(analysis, ex: A.Expect) -> None:
         if kind != "cone":
             sink.error(ex.subject.span, "wrong-kind", f"'==' compares cones, but '{subject}' is a {kind}")
             return
-        from .analysis import EvalError
         try:
-            other = analysis._cone_expr(ex.cone)
+            other = analysis.cone_expr(ex.cone)
         except EvalError:
             return
         if other.space != value.space:
@@ -423,13 +382,11 @@ def _expected_value(analysis, ex: A.Expect, p: Property):
 
 
 def _fmt(analysis, value, coords) -> str:
-    from .analysis import fmt_vec
     return fmt_vec(value.space.from_coords(coords))
 
 
 def _difference(analysis, left, right) -> str:
     """Say how two cones in the same lattice differ: a ray of one outside the other."""
-    from .analysis import fmt_vec
     for a, b, an, bn in ((left, right, "left", "right"), (right, left, "right", "left")):
         for r in a.cone.rays + a.cone.lineality:
             if not gcone.contains(b.cone, r):

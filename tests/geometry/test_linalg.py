@@ -284,7 +284,7 @@ def test_bezout():
 # --- abelian groups --------------------------------------------------------------------------
 
 def test_abelian_group_string_contract_examples():
-    # the class-group format of the language contract (LANGUAGE.md)
+    # the class-group format of the language contract (docs/language.md)
     assert la.abelian_group_string([], 0) == "0"
     assert la.abelian_group_string([], 1) == "Z"
     assert la.abelian_group_string([], 2) == "Z^2"

@@ -1,0 +1,88 @@
+"""User-facing forms: how numbers, vectors, fan cones, groups and results are written in
+messages, hovers and ``expect`` lines.
+
+Every module of the analysis that speaks to the user takes its forms from here, so one value is
+written one way everywhere.  Nothing here knows about an analysis; this module imports only
+geometry (for the group normal form and the first violated inequality of a morphism).
+
+>>> fmt_vec((1, -2, "3/2")), fan_cone_label((0, 2)), show_result((0, (2, 4)))
+('(1, -2, 3/2)', '[1 3]', '"Z/2 + Z/4"')
+"""
+from __future__ import annotations
+
+from fractions import Fraction
+
+from ..geometry import linalg
+from ..geometry import maps as gmaps
+
+
+def fmt_number(x) -> str:
+    """An integer as itself, a rational as ``p/q``.
+
+    >>> fmt_number(Fraction(6, 4)), fmt_number(3)
+    ('3/2', '3')
+    """
+    x = Fraction(x)
+    return str(x.numerator) if x.denominator == 1 else f"{x.numerator}/{x.denominator}"
+
+
+def fmt_vec(v) -> str:
+    """A vector as the user writes it.
+
+    >>> fmt_vec([Fraction(1, 7), 3])
+    '(1/7, 3)'
+    """
+    return "(" + ", ".join(fmt_number(x) for x in v) + ")"
+
+
+def fan_cone_label(indices) -> str:
+    """A cone of a fan as the user writes it: 0-based indices shown 1-based, ``[1 2]``."""
+    return "[" + " ".join(str(i + 1) for i in indices) + "]"
+
+
+def group_string(g) -> str:
+    """An abelian group ``(free rank, invariant factors)`` in invariant-factor form.
+
+    >>> group_string((1, (3,))), group_string((0, ()))
+    ('Z + Z/3', '0')
+    """
+    free, inv = g
+    return linalg.abelian_group_string(inv, free)
+
+
+def show_result(value) -> str:
+    """A property value as it is written on the right of ``expect … =``.
+
+    >>> show_result(None), show_result(True), show_result((3, 3, 1)), show_result(8)
+    ('none', 'yes', '(3, 3, 1)', '8')
+    """
+    if value is None:
+        return "none"
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, tuple) and len(value) == 2 and isinstance(value[1], tuple):
+        return f'"{group_string(value)}"'
+    if isinstance(value, tuple):
+        return "(" + ", ".join(map(str, value)) + ")"
+    return str(value)
+
+
+def violation_message(v) -> str | None:
+    """Why the map of a morphism value does not send the source into the target (user
+    coordinates: the ray, its image, the violated inequality or equation and its value), or
+    None when it does."""
+    bad = gmaps.first_violation(v.map.matrix, v.source.cone, v.target.cone)
+    if bad is None:
+        return None
+    ray, img, normal, val, is_eq = bad
+    rv = fmt_vec(v.source.space.from_coords(ray))
+    iv = fmt_vec(v.target.space.from_coords(img))
+    nv = fmt_vec(v.target.space.dual().from_coords(normal))
+    if is_eq:
+        what = (f"which violates the equation <{nv}, v> = 0 of the span of '{v.target_name}': "
+                f"<{nv}, {iv}> = {val} ≠ 0")
+    else:
+        what = (f"which violates the inequality <{nv}, v> ≥ 0 of '{v.target_name}': "
+                f"<{nv}, {iv}> = {val} < 0")
+    return (f"'{v.map_name}' does not send '{v.source_name}' into '{v.target_name}': it sends the ray "
+            f"{rv} of '{v.source_name}' to {iv}, {what}")
