@@ -15,6 +15,7 @@ from ..geometry.budget import BudgetExceeded, Cancelled
 from . import values as V
 from .engine import NotAvailable, NotPointed
 from .properties import group_string
+from .forms import budget_advice
 
 
 def jnum(x):
@@ -71,7 +72,7 @@ def _guard(errors: list, what: str, fn):
     except NotPointed:
         errors.append(f"{what}: the cone is not pointed")
     except BudgetExceeded as exc:
-        errors.append(f"{what}: {exc}; pass a larger --budget (for example --budget {10 * exc.limit})")
+        errors.append(f"{what}: {exc}; {budget_advice(exc)}")
     except NotAvailable as exc:
         errors.append(f"{what}: {exc}")
     except Exception as exc:  # never lose the other facts to one bug

@@ -86,3 +86,25 @@ def violation_message(v) -> str | None:
                 f"<{nv}, {iv}> = {val} < 0")
     return (f"'{v.map_name}' does not send '{v.source_name}' into '{v.target_name}': it sends the ray "
             f"{rv} of '{v.source_name}' to {iv}, {what}")
+
+
+def budget_advice(exc) -> str:
+    """Which ``--budget`` to pass after a :class:`~conelang.geometry.budget.BudgetExceeded`: the
+    estimate when the refusal came from one (rounded up), else ten times the limit; an estimate
+    beyond 10^12 steps (days of work) is said to be out of reach instead.
+
+    >>> from conelang.geometry.budget import BudgetExceeded
+    >>> budget_advice(BudgetExceeded("Hilbert basis", 1000, needed=123456))
+    'pass --budget 200000 or more'
+    >>> budget_advice(BudgetExceeded("toric ideal", 1000))
+    'pass a larger --budget (for example --budget 10000)'
+    >>> budget_advice(BudgetExceeded("Hilbert basis", 1000, needed=10 ** 16))
+    'out of reach for any --budget (about 10^16 steps)'
+    """
+    needed = getattr(exc, "needed", None)
+    if needed is None:
+        return f"pass a larger --budget (for example --budget {10 * exc.limit})"
+    if needed > 10 ** 12:
+        return f"out of reach for any --budget (about 10^{len(str(needed)) - 1} steps)"
+    lead = 10 ** (len(str(needed)) - 1)
+    return f"pass --budget {-(-needed // lead) * lead} or more"
