@@ -32,6 +32,7 @@ pairs.
 """
 from __future__ import annotations
 
+import math
 from typing import Sequence
 
 import numpy as np
@@ -65,6 +66,17 @@ def _blocks(m: int, per_row: int):
     step = max(1, _BLOCK // max(per_row, 1))
     for s in range(0, m, step):
         yield slice(s, min(m, s + step))
+
+
+def _unique_rows(P: np.ndarray) -> np.ndarray:
+    """The distinct rows of a nonnegative integer matrix (in some order), by one integer key per
+    row when the mixed-radix keys fit in int64 (much faster than ``np.unique(axis=0)``)."""
+    radix = [int(x) + 1 for x in P.max(0)]
+    if math.prod(radix) >= 2 ** 62:
+        return np.unique(P, axis=0)
+    mult = np.array([math.prod(radix[:f]) for f in range(len(radix))], dtype=np.int64)
+    _, first = np.unique(P @ mult, return_index=True)
+    return P[first]
 
 
 def _in_region(P: np.ndarray, K: np.ndarray) -> np.ndarray:
@@ -173,7 +185,7 @@ def normal_toric_ideal(gens: Sequence[Sequence[int]], facets: Sequence[Sequence[
             continue
         P = np.concatenate(parts)
         budget.tick(len(P) * (r * F // 64 + 1), WHAT, f"{seen} degrees below the Betti bound")
-        P = np.unique(P, axis=0)
+        P = _unique_rows(P)
         P = P[_in_region(P, K)]
         if not len(P):
             continue
