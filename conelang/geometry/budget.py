@@ -24,10 +24,11 @@ DEFAULT_LIMIT = 20_000_000
 class BudgetExceeded(Exception):
     """The computation ``what`` needed more than ``limit`` work units."""
 
-    def __init__(self, what: str, limit: int, detail: str = ""):
+    def __init__(self, what: str, limit: int, detail: str = "", needed: int | None = None):
         self.what = what
         self.limit = limit
         self.detail = detail
+        self.needed = needed              # the estimated total, when the refusal was up front
         msg = f"{what} is too large for the work budget of {limit} steps"
         if detail:
             msg += f" ({detail})"
@@ -58,7 +59,8 @@ class Budget:
     def check(self, estimate: int, what: str, detail: str = "") -> None:
         """Refuse up front when an estimated cost alone is over the remaining budget."""
         if self.limit is not None and self.used + estimate > self.limit:
-            raise BudgetExceeded(what, self.limit, detail or f"estimated {estimate} steps")
+            raise BudgetExceeded(what, self.limit, detail or f"estimated {estimate} steps",
+                                 needed=self.used + estimate)
 
 
 UNLIMITED = None

@@ -100,3 +100,21 @@ def shifted(d: Diagnostic, delta: int) -> Diagnostic:
     return Diagnostic(mv(d.span), d.severity, d.code, d.message,
                       tuple(Related(mv(r.span), r.message) for r in d.related), d.unnecessary,
                       tuple(Fix(f.title, mv(f.span), f.new_text) for f in d.fixes))
+
+
+def budget_advice(exc) -> str:
+    """What to pass to ``--budget`` after a :class:`~conelang.geometry.budget.BudgetExceeded`:
+    the estimate rounded up to one significant digit when the computation was refused up front,
+    ten times the limit when it ran out on the way; the one wording of every budget message.
+
+    >>> from conelang.geometry.budget import BudgetExceeded
+    >>> budget_advice(BudgetExceeded("Hilbert basis", 1000, needed=23_456))
+    'raise it with --budget 30000 (or --budget none)'
+    >>> budget_advice(BudgetExceeded("Hilbert basis", 20_000_000))
+    'raise it with --budget 200000000 or more (or --budget none)'
+    """
+    needed = getattr(exc, "needed", None)
+    if needed:
+        unit = 10 ** (len(str(needed)) - 1)
+        return f"raise it with --budget {-(-needed // unit) * unit} (or --budget none)"
+    return f"raise it with --budget {10 * exc.limit} or more (or --budget none)"

@@ -13,6 +13,7 @@ from ..geometry import linalg
 from ..geometry import maps as gmaps
 from ..geometry.budget import BudgetExceeded, Cancelled
 from . import values as V
+from .diagnostics import budget_advice
 from .engine import NotAvailable, NotPointed
 from .properties import group_string
 
@@ -69,7 +70,7 @@ def _guard(errors: list, what: str, fn):
     except NotPointed:
         errors.append(f"{what}: the cone is not pointed")
     except BudgetExceeded as exc:
-        errors.append(f"{what}: {exc}")
+        errors.append(f"{what}: {exc}; {budget_advice(exc)}")
     except NotAvailable as exc:
         errors.append(f"{what}: {exc}")
     except Exception as exc:  # never lose the other facts to one bug

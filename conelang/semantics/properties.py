@@ -23,7 +23,8 @@ from ..geometry import linalg
 from ..geometry import maps as gmaps
 from ..geometry.budget import BudgetExceeded, Cancelled
 from ..syntax import ast as A
-from .diagnostics import Related
+from ..syntax.text import closest_word
+from .diagnostics import Related, budget_advice
 from .engine import NotAvailable, NotPointed
 
 BOOL, INT, GROUP, OPT_INT, INTS = "yes/no", "integer", "abelian group", "integer or none", "list of integers"
@@ -244,7 +245,10 @@ def _fan_rays(a, v):
 
 @prop("fan", "cones", INT, "number of maximal cones")
 def _fan_cones(a, v):
-    return len(_fan_invariants(a, v).maximal_cones)
+    check = a.engine.fan_check(v)               # counting needs no invariants (Picard group)
+    if not check.valid:
+        _fan_invariants(a, v)                   # raises NotAvailable, saying why
+    return len(check.maximal)
 
 
 @prop("fan", "fixed_points", INT, "number of torus-fixed points (full-dimensional cones)")
@@ -348,8 +352,11 @@ def check_expect(analysis, ex: A.Expect) -> None:
     pname = ex.prop.text
     p = REGISTRY.get((kind, pname))
     if p is None:
-        known = ", ".join(q.name for q in properties_for(kind)) or "none yet"
-        sink.error(ex.prop.span, "unknown-property", f"'{pname}' is not a property of a {kind}; known: {known}")
+        names = [q.name for q in properties_for(kind)]
+        guess = closest_word(pname, names)
+        hint = f"; did you mean '{guess}'?" if guess else ""
+        sink.error(ex.prop.span, "unknown-property",
+                   f"'{pname}' is not a property of a {kind}{hint} (known: {', '.join(names) or 'none yet'})")
         return
     if ex.value is None and p.type != BOOL:
         sink.error(ex.prop.span, "expect-needs-value",
@@ -372,7 +379,7 @@ def check_expect(analysis, ex: A.Expect) -> None:
                    related=(Related(analysis.defs[subject].span, f"'{subject}' is defined here"),))
         return
     except BudgetExceeded as exc:
-        sink.error(ex.span, "budget", f"cannot check '{pname}' of '{subject}': {exc}; raise it with --budget")
+        sink.error(ex.span, "budget", f"cannot check '{pname}' of '{subject}': {exc}; {budget_advice(exc)}")
         return
     except NotAvailable as exc:
         sink.error(ex.span, "not-computed-yet", f"cannot check '{pname}' of '{subject}': {exc}")
