@@ -244,7 +244,7 @@ def test_latex_equations_are_the_computed_ones():
 
 @pytest.mark.skipif(shutil.which("pdflatex") is None, reason="no TeX installation")
 def test_latex_compiles(tmp_path):
-    tex = latex_mod.render(document(ALL + PLANE.replace("lattice N = Z^2\n", "lattice N = Z^2\n", 1)
+    tex = latex_mod.render(whole_document=True, doc=document(ALL + PLANE.replace("lattice N = Z^2\n", "lattice N = Z^2\n", 1)
                                     .replace("lattice Q", "lattice Q2").replace(" in Q ", " in Q2 ")
                                     .replace("cone q", "cone q2").replace("cone s", "cone s2")
                                     .replace("resolve s", "resolve s2").replace("fan R", "fan R2")
@@ -298,4 +298,27 @@ def test_cli_show_formats(tmp_path, capsys, fmt):
     if fmt == "svg":
         ET.fromstring(out)
     else:
-        assert out.rstrip().endswith(r"\end{document}")
+        # changed deliberately (issue 15 item 8): a fragment to \input by default, a whole
+        # document with --whole-document
+        assert r"\begin{document}" not in out and r"\subsection*" in out
+        assert main(["show", str(path), "--format", fmt, "--whole-document"]) == 0
+        assert capsys.readouterr().out.rstrip().endswith(r"\end{document}")
+
+
+def test_latex_long_lists_break_across_lines_and_prose_has_no_internal_names():
+    # issue 15 item 8: the Hilbert basis of wedge_a (6 vectors) is a display with at most 4
+    # vectors a line, and those are exactly the computed ones
+    doc = document(ALL)
+    tex = latex_mod.render(doc)
+    block = re.search(r"Hilbert basis of \$\\sigma \\cap N\$:\n\\begin\{align\*\}\n(.*?)\n\\end\{align\*\}",
+                      tex, re.S).group(1)
+    rows = block.split("\\\\\n")
+    assert len(rows) >= 2 and all(row.count("(") <= 4 for row in rows)
+    got = [tuple(int(x) for x in m.split(", ")) for m in re.findall(r"\(([-\d, ]+)\)", block)]
+    assert got == [tuple(v) for v in doc["objects"]["wedge_a"]["hilbert_basis"]]
+    # outside names (\texttt{…}) there is no escaped underscore: no internal name in prose
+    # (the diagnostics quote the user's names and are left out)
+    prose = re.sub(r"\\texttt\{[^}]*\}", "", tex.split(r"\subsection*{Diagnostics}")[0])
+    assert r"\_" not in prose
+    kinds = doc["objects"]["phi"]["kinds"]
+    assert any("_" in k for k in kinds) and all(k.replace("_", " ") in tex for k in kinds)

@@ -320,6 +320,53 @@ def saturate(rows: Sequence[Sequence[int]], ncols: int | None = None) -> Matrix:
     return kernel_basis(kernel_basis(ir, n), n)
 
 
+def reduce_mod_hnf(v: Sequence[int], basis: Sequence[Sequence[int]]) -> Vec:
+    """The canonical representative of ``v + L`` for the lattice ``L`` with row Hermite basis
+    ``basis``: each pivot coordinate brought into ``[0, pivot)``, top row first (later rows do
+    not change earlier pivot columns, so the result is unique).
+
+    >>> reduce_mod_hnf((5, 7), [(2, 3)])
+    (1, 1)
+    >>> reduce_mod_hnf((1, -1), [(1, 1)])
+    (0, -2)
+    """
+    w = [int(x) for x in v]
+    for row in basis:
+        p = next(i for i, x in enumerate(row) if x)
+        q = w[p] // row[p]
+        if q:
+            w = [a - q * b for a, b in zip(w, row)]
+    return tuple(w)
+
+
+def primitive_mod(v: Sequence[int], basis: Sequence[Sequence[int]], ncols: int) -> Vec:
+    """The primitive generator of the ray through the class of ``v`` in ``Z^n / L``, where
+    ``L`` is the saturated lattice with Hermite basis ``basis`` and ``v`` is not in ``span(L)``,
+    as the canonical representative of its class (:func:`reduce_mod_hnf`).
+
+    Let ``S = span(L, v) ∩ Z^n``; ``S / L ≅ Z`` through the primitive functional ``φ`` on
+    ``S`` vanishing on ``L``, oriented so that ``φ(v) > 0``; the answer is the reduced ``w ∈ S``
+    with ``φ(w) = 1``, and ``v ≡ φ(v)·w (mod L)``.  Without ``L`` it is :func:`primitive`.
+
+    >>> primitive_mod((1, 0), [(1, 1)], 2)       # in Z^2/Z(1,1) the class of (1,0) is primitive
+    (0, -1)
+    >>> primitive_mod((2, 4, 1), [(0, 1, 0)], 3), primitive_mod((6, 4), [], 2)
+    ((2, 0, 1), (3, 2))
+    """
+    if not basis:
+        return primitive(v)
+    lat = hnf(basis, ncols)
+    S = saturate(list(lat) + [tuple(v)], ncols)
+    St = transpose(S, ncols)
+    coords = [solve_integer(St, row, len(S)) for row in lat]
+    phi = kernel_basis(coords, len(S))[0]
+    cv = solve_integer(St, tuple(v), len(S))
+    if dot(phi, cv) < 0:
+        phi = tuple(-x for x in phi)
+    t = solve_integer([phi], (1,), len(S))
+    return reduce_mod_hnf(vec_mat(t, S, ncols), lat)
+
+
 def is_in_row_span(v: Sequence, rows: Sequence[Sequence], ncols: int | None = None) -> bool:
     """True iff ``v`` is a rational combination of the rows.
 

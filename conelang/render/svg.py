@@ -222,8 +222,15 @@ def _cone_panel_2d(title: str, subtitle: str, radius: int, rays, lineality, norm
     poly = _region(plane, normals, equations)
     if len(poly) >= 3:
         panel.body.append(_polygon(plane, poly, "region"))
-    both = list(rays) + [l for l in lineality] + [[-Fraction(x) for x in l] for l in lineality]
-    panel.body += _rays(plane, both)
+    if lineality:
+        # the boundary of a cone with a line is made of lines of the lineality space; the
+        # generators of the pointed part (a representative modulo the lineality) are no edges,
+        # so they are drawn as marked points only
+        both = [l for l in lineality] + [[-Fraction(x) for x in l] for l in lineality]
+        panel.body += _rays(plane, both)
+        panel.body += _points(plane, rays, "ray-generator", 3.5)
+    else:
+        panel.body += _rays(plane, rays)
     panel.body += _points(plane, points, "lattice-point", 2.5)
     panel.body += _points(plane, basis, "hilbert-basis", 5.5)
     return panel
