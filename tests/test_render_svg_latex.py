@@ -143,10 +143,14 @@ def test_svg_cross_sections_are_exact_pictures():
     o = doc["objects"]["w"]
     assert panel_points(root, "cone w", "ray-generator") == {Q_(*r) for r in o["rays"]}
     hb_drawn = panel_points(root, "cone w", "hilbert-basis")
-    assert hb_drawn == {Q_(*h) for h in o["hilbert_basis"]} - {Q_(*r) for r in o["rays"]}
+    # changed deliberately (issue 15 item 8): the corners are ringed too, being in the basis
+    assert hb_drawn == {Q_(*h) for h in o["hilbert_basis"]}
+    # the section of this Q-Gorenstein cone is at the level where the corners lie: m with
+    # <m, v> = 1 on e1, e2, (1,1,4) is (1,1,-1/4) (by hand), primitive (4,4,-1), level 4
+    assert "section by &lt;(4, 4, -1), x&gt; = 4" in out
     # the section coordinates are an isometric picture of σ ∩ {<w, x> = 1}: compare all
     # pairwise distances with those of the points p / <w, p> in Q^3 (sympy, exact)
-    wv = tuple(sum(Fraction(u[i]) for u in o["facets"]) for i in range(3))
+    wv = (4, 4, -1)
     pts = [tuple(Fraction(x) for x in p) for p in o["rays"] + o["hilbert_basis"]]
     coords, (n1, n2) = svg_mod.section_coordinates(pts, wv)
     plane = [(float(s) * n1, float(t) * n2) for s, t in coords]
@@ -322,3 +326,45 @@ def test_latex_long_lists_break_across_lines_and_prose_has_no_internal_names():
     assert r"\_" not in prose
     kinds = doc["objects"]["phi"]["kinds"]
     assert any("_" in k for k in kinds) and all(k.replace("_", " ") in tex for k in kinds)
+
+
+def test_svg_labels_never_overlap():
+    # crowded labels: many rays close together in the plane, a fan with long labels, and the
+    # sections of the file SPACE; every panel's label boxes are pairwise disjoint
+    crowded = ("lattice N = Z^2\nfan F in N { rays " + " ".join(f"(8,{k})" for k in range(-6, 7))
+               + " cones " + " ".join(f"[{i} {i + 1}]" for i in range(1, 13)) + " }\n"
+               "cone c in N { rays (7,-6) (7,6) }\n")
+    for text in (crowded, SPACE, PLANE):
+        out = svg_mod.render(document(text))
+        ET.fromstring(out)
+        for boxes in svg_mod.label_boxes(out):
+            for a, b in itertools.combinations(boxes, 2):
+                assert not (a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]), (a, b)
+            for box in boxes:
+                assert 0 <= box[0] and box[2] <= svg_mod.PANEL and 0 <= box[1] and box[3] <= svg_mod.PANEL
+    # labels left out for lack of room are kept as hover titles: one per ray in all
+    out = svg_mod.render(document(crowded))
+    root = ET.fromstring(out)
+    fan = next(g for g in root.iter("{http://www.w3.org/2000/svg}g") if g.get("class") == "panel")
+    shown = [t for t in fan.iter("{http://www.w3.org/2000/svg}text") if t.get("class") == "ray-label"]
+    thinned = [c for c in fan.iter("{http://www.w3.org/2000/svg}circle") if c.get("class") == "thinned-label"]
+    assert len(shown) + len(thinned) == 13
+    # twenty labels at one point cannot all be placed: the rest are thinned, none overlap
+    placer = svg_mod.Labels()
+    marks = [placer.place(150, 150, f"label {i}") for i in range(20)]
+    assert 0 < sum("thinned-label" in m for m in marks) < 20
+    for a, b in itertools.combinations(placer.boxes, 2):
+        assert not (a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3])
+
+
+def test_svg_cone_with_a_line_draws_no_spurious_edge():
+    # the half-plane {x >= y}: its boundary is the line through ±(1,1); the generator of the
+    # pointed part is a marked point, not an edge
+    doc = document("lattice N = Z^2\ncone h in N { halfspaces (1,-1) }\n")
+    root = ET.fromstring(svg_mod.render(doc))
+    panel = next(g for g in root.iter("{http://www.w3.org/2000/svg}g") if g.get("class") == "panel")
+    edges = [l for l in panel.iter("{http://www.w3.org/2000/svg}line") if l.get("class") == "ray"]
+    assert len(edges) == 2
+    for l in edges:      # both along the diagonal through the centre: x - 150 = -(y - 150)
+        x2, y2 = float(l.get("x2")) - 150, float(l.get("y2")) - 150
+        assert abs(x2 + y2) < 1e-6

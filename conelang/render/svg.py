@@ -106,6 +106,59 @@ def _clip(poly, a, b, c):
 
 
 # ---------------------------------------------------------------------------------------------
+# labels that never overlap
+
+
+LABEL_H = 11         # height of a label (font-size 10 plus a little), in SVG units
+LABEL_W = 6          # width of one character (an upper bound for the 10px sans-serif font)
+
+
+class Labels:
+    """Places the labels of one panel so that no two overlap: each label tries a few positions
+    around its point and takes the first whose box is inside the panel and meets no placed
+    box; a label with no free position is left out (thinned) and its text kept as the
+    ``<title>`` of an invisible mark, so it still shows on hover."""
+
+    OFFSETS = ((5, -5), (5, 13), (-5, -5), (-5, 13), (5, -16), (5, 24), (-5, -16), (-5, 24))
+
+    def __init__(self):
+        self.boxes: list[tuple[float, float, float, float]] = []
+
+    @staticmethod
+    def _meets(a, b) -> bool:
+        return a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]
+
+    def place(self, x: float, y: float, text: str, cls: str = "ray-label") -> str:
+        w = LABEL_W * len(text)
+        for dx, dy in self.OFFSETS:
+            left = x + dx if dx > 0 else x + dx - w
+            box = (left, y + dy - LABEL_H + 2, left + w, y + dy + 2)
+            if box[0] < 0 or box[2] > PANEL or box[1] < 0 or box[3] > PANEL:
+                continue
+            if any(self._meets(box, b) for b in self.boxes):
+                continue
+            self.boxes.append(box)
+            return f'<text class="{cls}" x="{_f(left)}" y="{_f(y + dy)}">{escape(text)}</text>'
+        return (f'<circle class="thinned-label" cx="{_f(x)}" cy="{_f(y)}" r="4" fill-opacity="0">'
+                f'<title>{escape(text)}</title></circle>')
+
+
+def label_boxes(svg_text: str) -> list[list[tuple[float, float, float, float]]]:
+    """The boxes of the labels of each panel of a rendered picture (for tests), in the same
+    estimate :class:`Labels` uses."""
+    import re
+    out = []
+    for panel in svg_text.split('<g class="panel"')[1:]:
+        boxes = []
+        for m in re.finditer(r'<text class="ray-label" x="([-\d.]+)" y="([-\d.]+)">([^<]*)</text>', panel):
+            x, y = float(m.group(1)), float(m.group(2))
+            n = len(m.group(3).replace("&amp;", "&").replace("&lt;", "<").replace("&gt;", ">"))
+            boxes.append((x, y - LABEL_H + 2, x + LABEL_W * n, y + 2))
+        out.append(boxes)
+    return out
+
+
+# ---------------------------------------------------------------------------------------------
 # panels
 
 
@@ -198,7 +251,8 @@ def _points(plane: Plane, pts, cls: str, r: float) -> list[str]:
     return out
 
 
-def _rays(plane: Plane, rays, labels=None) -> list[str]:
+def _rays(plane: Plane, rays, labels=None, placer: Labels | None = None) -> list[str]:
+    placer = placer or Labels()
     out = []
     for i, r in enumerate(rays):
         q = _qv(r)
@@ -207,10 +261,8 @@ def _rays(plane: Plane, rays, labels=None) -> list[str]:
         end = plane.to_edge(q)
         out.append(_line(plane, (0, 0), end, "ray"))
         x, y = plane.xy(end)
-        x = min(max(x, 4), PANEL - 60)
-        y = min(max(y, 12), PANEL - 4)
         text = labels[i] if labels else _vec_text(r)
-        out.append(f'<text class="ray-label" x="{_f(x)}" y="{_f(y)}">{escape(text)}</text>')
+        out.append(placer.place(x, y, text))
     return out
 
 
@@ -319,13 +371,12 @@ def _section_panel(title: str, subtitle: str, vertices, labels, w, extra=(), pol
             panel.body.append(f'<polygon class="section" style="fill:{fill}" points="{pts}"/>')
         elif len(g) == 2:
             panel.body.append(f'<polyline class="section" style="fill:none" points="{pts}"/>')
+    placer = Labels()
     for i, v in enumerate(vertices):
         x, y = at(i)
         panel.body.append(f'<circle class="ray-generator" cx="{_f(x)}" cy="{_f(y)}" r="3.5" '
                           f'data-point="{_exact(v)}"/>')
-        tx = min(max(x + 5, 2), PANEL - 70)
-        ty = min(max(y - 5, 12), PANEL - 4)
-        panel.body.append(f'<text class="ray-label" x="{_f(tx)}" y="{_f(ty)}">{escape(labels[i])}</text>')
+        panel.body.append(placer.place(x, y, labels[i]))
     for j, p in enumerate(extra):
         x, y = at(len(vertices) + j)
         panel.body.append(f'<circle class="hilbert-basis" cx="{_f(x)}" cy="{_f(y)}" r="5" '
@@ -366,6 +417,42 @@ def _wrap(text: str, width: int) -> list[str]:
 # objects
 
 
+def section_functional(rays, facets):
+    """The plane ``<w, x> = level`` of the picture of a pointed 3-dimensional cone: when one
+    functional takes the same value on every ray generator (a Q-Gorenstein cone), ``w`` is
+    it, made primitive, and ``level`` that value, so the corners lie in the section and it is
+    the polytope conv(rays); otherwise ``w`` is the primitive sum of the facet normals
+    (positive on σ ∖ 0) and ``level`` 1.
+
+    >>> section_functional([(1, 0, 0), (0, 1, 0), (1, 1, 4)], [(0, 0, 1), (0, 4, -1), (4, 0, -1)])
+    ((4, 4, -1), 4)
+    >>> from conelang.geometry.cone import cone_from_rays
+    >>> c = cone_from_rays([(1, 0, 1), (0, 1, 1), (-1, 0, 1), (0, -1, 2)], 3)
+    >>> section_functional(c.rays, c.facets)      # no common value: the sum of the normals
+    ((0, 1, 2), 1)
+    """
+    from ..geometry import linalg
+    ints = [_integral(r) for r in rays]
+    m = linalg.solve_rational(ints, [1] * len(ints), 3) if ints else None
+    if m is not None:
+        w = _integral(m)
+        return w, _dot(w, ints[0])
+    return _integral(_sum(facets, 3)), 1
+
+
+def _integral(v) -> tuple[int, ...]:
+    """The primitive integer vector on the ray of a rational vector."""
+    q = _qv(v)
+    den = 1
+    for x in q:
+        den = den * x.denominator // _gcd(den, x.denominator)
+    ints = [int(x * den) for x in q]
+    g = 0
+    for x in ints:
+        g = _gcd(g, abs(x))
+    return tuple(x // g for x in ints) if g else tuple(ints)
+
+
 def cone_panels(name: str, o: dict) -> list[Panel]:
     n = o["ambient_dim"]
     lattice = o["lattice"]
@@ -386,18 +473,19 @@ def cone_panels(name: str, o: dict) -> list[Panel]:
         if not o.get("pointed") or not o["rays"]:
             return [_note_panel(f"cone {name} in {lattice}",
                                 "this cone is not pointed (or is zero): it has no bounded cross-section")]
-        w = _sum(o["facets"], 3) if o["facets"] else _qv(o["rays"][0])
         if not o["facets"]:
             return [_note_panel(f"cone {name} in {lattice}", "a single ray: its cross-section is a point")]
-        hb = [h for h in o.get("hilbert_basis", []) if h not in o["rays"]]
-        p1 = _section_panel(f"cone {name} in {lattice}", f"section by <{_vec_text(w)}, x> = 1; ringed: Hilbert basis",
+        w, level = section_functional(o["rays"], o["facets"])
+        hb = list(o.get("hilbert_basis", []))          # the corners too: they are in it
+        p1 = _section_panel(f"cone {name} in {lattice}",
+                            f"section by <{_vec_text(w)}, x> = {level}; ringed: Hilbert basis",
                             o["rays"], [_vec_text(r) for r in o["rays"]], w, hb)
         panels = [p1]
         if o.get("full") and o["facets"]:
-            w2 = _sum(o["rays"], 3)
-            dhb = [g for g in dual_basis if g not in o["facets"]]
-            panels.append(_section_panel(f"dual of {name}", f"section by <x, {_vec_text(w2)}> = 1; ringed: z_i of U_σ",
-                                         o["facets"], [_vec_text(u) for u in o["facets"]], w2, dhb))
+            w2, level2 = section_functional(o["facets"], o["rays"])
+            panels.append(_section_panel(f"dual of {name}",
+                                         f"section by <x, {_vec_text(w2)}> = {level2}; ringed: z_i of U_σ",
+                                         o["facets"], [_vec_text(u) for u in o["facets"]], w2, list(dual_basis)))
         return panels
     return []
 
