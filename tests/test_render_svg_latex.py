@@ -368,3 +368,21 @@ def test_svg_cone_with_a_line_draws_no_spurious_edge():
     for l in edges:      # both along the diagonal through the centre: x - 150 = -(y - 150)
         x2, y2 = float(l.get("x2")) - 150, float(l.get("y2")) - 150
         assert abs(x2 + y2) < 1e-6
+
+
+def test_svg_fan_pictures_show_the_lattice_points_of_the_support():
+    # brute force: a point of the window is in cone(u, w) by Cramer's rule (in_cone2), or on a ray
+    doc = document(PLANE + "fan G in N { rays (1,0) (1,1) (-1,2) cones [1 2] [3] }\n")
+    root = ET.fromstring(svg_mod.render(doc))
+    R = max(abs(c) for r in doc["objects"]["P"]["rays"] for c in r)
+    got = panel_points(root, "fan P", "lattice-point")
+    # P^2 is complete (Fulton §1.4, from memory): every point of the window is drawn
+    assert len(got) >= 49 and all(max(abs(c) for c in p) <= 3 for p in got)
+    side = int(max(max(abs(c) for c in p) for p in got))
+    assert len(got) == (2 * side + 1) ** 2
+    got = panel_points(root, "fan G", "lattice-point")
+    side = int(max(max(abs(c) for c in p) for p in got))
+    box = itertools.product(range(-side, side + 1), repeat=2)
+    want = {Q_(*p) for p in box if in_cone2(p, (1, 0), (1, 1))
+            or (p[0] * 2 + p[1] == 0 and p[1] >= 0)}
+    assert got == want and R >= 1

@@ -11,7 +11,8 @@ document.  Each drawable object gets a row of panels; rows are stacked:
   of the inner facet normals (an interior vector of the dual, positive on σ ∖ 0), projected
   exactly to an orthogonal rational basis of ``w^⊥``, with the rays as vertices and the
   Hilbert basis elements ``h`` drawn at ``h / <w, h>``; the dual cone likewise;
-* a fan in rank 2: its cones (alternately shaded), rays numbered as in the file; a fan in
+* a fan in rank 2: its cones (alternately shaded), rays numbered as in the file, and the
+  lattice points of its support in the window (for a lattice Z^2); a fan in
   rank 3 whose rays lie in an open half-space (e.g. a resolution of a cone): the
   cross-section of all its cones.
 
@@ -490,7 +491,34 @@ def cone_panels(name: str, o: dict) -> list[Panel]:
     return []
 
 
-def fan_panels(name: str, o: dict) -> list[Panel]:
+def _support_points(rays, cones, radius: int) -> list[tuple[int, int]]:
+    """The points of Z^2 in ``[-radius, radius]^2`` that lie in some cone of a plane fan
+    (cones as 0-based ray indices; exact, by the signs of determinants).
+
+    >>> len(_support_points([(1, 0), (0, 1)], [[0, 1]], 1)), _support_points([(1, 1)], [[0]], 1)
+    (4, [(0, 0), (1, 1)])
+    """
+    def det(a, b):
+        return a[0] * b[1] - a[1] * b[0]
+
+    gens = [[_qv(rays[i]) for i in c] for c in cones]
+    normals = [_plane_cone_normals(g) if len(g) >= 2 else None for g in gens]
+    out = []
+    for x in range(-radius, radius + 1):
+        for y in range(-radius, radius + 1):
+            p = (x, y)
+            for g, nm in zip(gens, normals):
+                if len(g) == 1:
+                    hit = det(g[0], p) == 0 and _dot(g[0], p) >= 0
+                else:
+                    hit = nm is not None and all(_dot(n, p) >= 0 for n in nm)
+                if hit or p == (0, 0):
+                    out.append(p)
+                    break
+    return out
+
+
+def fan_panels(name: str, o: dict, standard: bool = True) -> list[Panel]:
     rays = o["rays"]
     if not rays:
         return []
@@ -515,6 +543,8 @@ def fan_panels(name: str, o: dict) -> list[Panel]:
                     poly = _region(plane, normals, [])
                     if len(poly) >= 3:
                         panel.body.append(_polygon(plane, poly, "region", FILLS[k % len(FILLS)]))
+        if standard:
+            panel.body += _points(plane, _support_points(rays, cones, int(radius)), "lattice-point", 2)
         panel.body += _rays(plane, rays, [f"{i + 1}: {_vec_text(r)}" for i, r in enumerate(rays)])
         for i, r in enumerate(rays):
             if max(abs(Fraction(c)) for c in r) <= radius:
@@ -587,7 +617,9 @@ def render(doc: dict) -> str:
         if kind == "cone":
             panels = cone_panels(name, o)
         elif kind == "fan":
-            panels = fan_panels(name, o)
+            lat = doc["objects"].get(o.get("lattice"), {})
+            panels = fan_panels(name, o, standard=("basis" not in lat if lat.get("kind") == "lattice"
+                                                   else str(o.get("lattice", "")).startswith("Z^")))
         if panels:
             rows.append(panels)
         elif kind in ("cone", "fan"):
