@@ -107,12 +107,21 @@ def Q_(*xs):
 
 def test_svg_lattice_points_of_an_overlattice():
     # N = Z^2 + Z (1/7, 3/7): its points are (a/7, b/7) with b ≡ 3a (mod 7)
+    # changed deliberately (issue 15 item 8): the picture is drawn in the lattice's own
+    # coordinates, in the basis b1 = (1/7, 3/7), b2 = (0, 1) shown for Q; there the orthant is
+    # cone((0,1), (7,-3)) ((1,0) = 7 b1 - 3 b2) and its points are the integer grid
     doc = document(PLANE)
-    root = ET.fromstring(svg_mod.render(doc))
-    R = doc["objects"]["q"]["lattice_window"]
-    want = {(Fraction(a, 7), Fraction(b, 7)) for a in range(0, 7 * R + 1) for b in range(0, 7 * R + 1)
-            if (b - 3 * a) % 7 == 0}
+    out = svg_mod.render(doc)
+    root = ET.fromstring(out)
+    assert doc["objects"]["Q"]["basis"] == [["1/7", "3/7"], [0, 1]]
+    side = 7            # the window reaches the ray (7, -3)
+    coords = [(a, b) for a in range(-side, side + 1) for b in range(-side, side + 1)
+              if in_cone2((a, b), (0, 1), (7, -3))]
+    want = {(Fraction(a, 7), Fraction(3 * a, 7) + b) for a, b in coords}
+    # every user point drawn is in Q: (a/7, b'/7) with b' ≡ 3a (mod 7)
+    assert all((p[1] * 7 - 3 * p[0] * 7) % 7 == 0 for p in want)
     assert panel_points(root, "cone q", "lattice-point") == want
+    assert "in the coordinates of the lattice basis" in out
     # Fulton §2.2 (from memory): the orthant in this lattice is the cyclic quotient 1/7(1,3)
     # type, and its Hilbert basis in the window is the brute-force one
     assert panel_points(root, "cone q", "hilbert-basis") == brute_hilbert_basis(want)

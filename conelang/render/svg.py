@@ -454,11 +454,94 @@ def _integral(v) -> tuple[int, ...]:
     return tuple(x // g for x in ints) if g else tuple(ints)
 
 
-def cone_panels(name: str, o: dict) -> list[Panel]:
+def _mat_vec(v, rows):
+    """v · rows (v a row vector)."""
+    return tuple(sum(_q(a) * _q(r[j]) for a, r in zip(v, rows)) for j in range(len(rows[0])))
+
+
+def _inverse2(B):
+    (a, b), (c, d) = [_qv(r) for r in B]
+    det = a * d - b * c
+    return ((d / det, -b / det), (-c / det, a / det))
+
+
+def _lattice_points_in(radius: int, normals, equations, basis) -> list[tuple[tuple, tuple]]:
+    """(lattice coordinates, user coordinates) of the points of Z^2 in ``[-radius, radius]^2``
+    with ``<n, x> >= 0`` and ``<e, x> = 0`` (normals in dual lattice coordinates)."""
+    out = []
+    for a in range(-radius, radius + 1):
+        for b in range(-radius, radius + 1):
+            x = (a, b)
+            if all(_dot(u, x) >= 0 for u in normals) and all(_dot(e, x) == 0 for e in equations):
+                out.append((x, _mat_vec(x, basis)))
+    return out
+
+
+def _marks(plane: Plane, pairs, cls: str, r: float) -> list[str]:
+    """Circles at lattice coordinates, labelled (``data-point``) with user coordinates."""
+    out = []
+    for pos, user in pairs:
+        if max(abs(_q(c)) for c in pos) > plane.R:
+            continue
+        x, y = plane.xy(_qv(pos))
+        out.append(f'<circle class="{cls}" cx="{_f(x)}" cy="{_f(y)}" r="{r}" data-point="{_exact(user)}"/>')
+    return out
+
+
+def _overlattice_panel(title, subtitle, rays, lineality, normals, equations, basis, ringed, labels):
+    """A plane cone of an overlattice drawn in the lattice's own coordinates (its basis
+    ``basis`` in user coordinates): its points are the integer grid; the marks keep their user
+    coordinates in ``data-point`` and the ray labels are written in user coordinates."""
+    inv = _inverse2(basis)
+    to_c = lambda v: _mat_vec(v, inv)                      # noqa: E731  user -> coordinates
+    to_dc = lambda u: _mat_vec(u, list(zip(*basis)))       # noqa: E731  dual user -> dual coords
+    rays_c = [to_c(r) for r in rays]
+    lin_c = [to_c(l) for l in lineality]
+    normals_c = [to_dc(u) for u in normals]
+    eqs_c = [to_dc(e) for e in equations]
+    ringed_c = [(to_c(h), h) for h in ringed]
+    radius = _window(rays_c + [c for c, _ in ringed_c])
+    panel = Panel(title, subtitle)
+    plane = Plane(radius)
+    panel.body += _axes(plane)
+    poly = _region(plane, normals_c, eqs_c)
+    if len(poly) >= 3:
+        panel.body.append(_polygon(plane, poly, "region"))
+    placer = Labels()
+    edges = (lin_c + [tuple(-x for x in l) for l in lin_c]) if lin_c else rays_c
+    edge_labels = ([_vec_text(l) for l in lineality] + [_vec_text([-_q(x) for x in l]) for l in lineality]
+                   if lin_c else labels)
+    panel.body += _rays(plane, edges, edge_labels, placer)
+    if lin_c:
+        panel.body += _marks(plane, list(zip(rays_c, rays)), "ray-generator", 3.5)
+    panel.body += _marks(plane, _lattice_points_in(int(radius), normals_c, eqs_c, basis), "lattice-point", 2.5)
+    panel.body += _marks(plane, ringed_c, "hilbert-basis", 5.5)
+    return panel
+
+
+def _overlattice_panels(name: str, o: dict, basis) -> list[Panel]:
+    var = o.get("variety") or {}
+    dual_basis_vectors = [tuple(r) for r in _inverse2(basis)]            # columns: the dual basis
+    dual_basis = [tuple(dual_basis_vectors[j][i] for j in range(2)) for i in range(2)]
+    lin = o["lineality"]
+    p1 = _overlattice_panel(f"cone {name} in {o['lattice']}",
+                            "in the coordinates of the lattice basis; ringed: Hilbert basis",
+                            o["rays"], lin, o["facets"], o["linear_equations"], basis,
+                            o.get("hilbert_basis", []), [_vec_text(r) for r in o["rays"]])
+    dual_normals = list(o["rays"]) + list(lin) + [[-_q(x) for x in l] for l in lin]
+    p2 = _overlattice_panel(f"dual of {name}", "in the dual basis; ringed: the coordinates z_i of U_σ",
+                            o["facets"], o["linear_equations"], dual_normals, [], dual_basis,
+                            var.get("generators", []), [_vec_text(u) for u in o["facets"]])
+    return [p1, p2]
+
+
+def cone_panels(name: str, o: dict, basis=None) -> list[Panel]:
     n = o["ambient_dim"]
     lattice = o["lattice"]
     var = o.get("variety") or {}
     dual_basis = var.get("generators", [])
+    if n == 2 and basis:
+        return _overlattice_panels(name, o, basis)
     if n == 2:
         radius = o.get("lattice_window") or _window(o["rays"] + o.get("hilbert_basis", []) + o["facets"])
         p1 = _cone_panel_2d(f"cone {name} in {lattice}", "σ, its lattice points and Hilbert basis (ringed)",
@@ -615,7 +698,9 @@ def render(doc: dict) -> str:
         kind = o.get("kind")
         panels = []
         if kind == "cone":
-            panels = cone_panels(name, o)
+            lat = doc["objects"].get(o.get("lattice"), {})
+            basis = lat.get("basis") if lat.get("kind") == "lattice" and "dual_of" not in lat else None
+            panels = cone_panels(name, o, basis)
         elif kind == "fan":
             lat = doc["objects"].get(o.get("lattice"), {})
             panels = fan_panels(name, o, standard=("basis" not in lat if lat.get("kind") == "lattice"
