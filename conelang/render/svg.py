@@ -6,7 +6,9 @@ document.  Each drawable object gets a row of panels; rows are stacked:
 * a cone in a lattice of rank 2: the cone (shaded, clipped to the window ``[-R, R]^2`` of
   user coordinates), its rays, its lattice points in the window and its Hilbert basis
   (ringed); a second panel shows the dual cone with its lattice points and the Hilbert basis
-  of the dual monoid (the coordinates z_i of U_σ);
+  of the dual monoid (the coordinates z_i of U_σ).  A cone of an overlattice whose lattice is
+  in the document (with its ``basis``) is drawn in the lattice's own coordinates instead, so
+  its points are the integer grid (``data-point`` keeps the user coordinates);
 * a cone in a lattice of rank 3: the cross-section ``σ ∩ {<w, x> = 1}`` for ``w`` = the sum
   of the inner facet normals (an interior vector of the dual, positive on σ ∖ 0), projected
   exactly to an orthogonal rational basis of ``w^⊥``, with the rays as vertices and the
