@@ -395,3 +395,18 @@ def test_svg_fan_pictures_show_the_lattice_points_of_the_support():
     want = {Q_(*p) for p in box if in_cone2(p, (1, 0), (1, 1))
             or (p[0] * 2 + p[1] == 0 and p[1] >= 0)}
     assert got == want and R >= 1
+
+
+def test_svg_morphism_draws_the_image_of_the_source_cone():
+    # the README's tour: f(e1) = (1,0), f(e2) = (0,1), f(1,1,4) = (1,0) + (0,1) + 4 (1,1) = (5,5)
+    # (by hand); the picture is drawn in the target's plane
+    text = ("lattice N = Z^3\nlattice P = Z^2\ncone wedge in N { rays (1,0,0) (0,1,0) (1,1,4) }\n"
+            "cone target in P { rays (1,0) (0,1) }\nmap f : N -> P { images (1,0) (0,1) (1,1) }\n"
+            "morphism phi = f : wedge -> target\n")
+    root = ET.fromstring(svg_mod.render(document(text)))
+    assert panel_points(root, "morphism phi", "image-generator") == {Q_(1, 0), Q_(0, 1), Q_(5, 5)}
+    # a morphism into a 3-dimensional cone is not drawn
+    text3 = text.replace("lattice P = Z^2", "lattice P = Z^3").replace("(1,0) (0,1) }", "(1,0,0) (0,1,0) (0,0,1) }") \
+        .replace("images (1,0) (0,1) (1,1)", "images (1,0,0) (0,1,0) (0,0,1)")
+    out = svg_mod.render(document(text3))
+    assert "morphism phi" not in out

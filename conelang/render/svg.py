@@ -13,6 +13,7 @@ document.  Each drawable object gets a row of panels; rows are stacked:
   of the inner facet normals (an interior vector of the dual, positive on σ ∖ 0), projected
   exactly to an orthogonal rational basis of ``w^⊥``, with the rays as vertices and the
   Hilbert basis elements ``h`` drawn at ``h / <w, h>``; the dual cone likewise;
+* a morphism into a plane cone: the target cone with the image of the source cone over it;
 * a fan in rank 2: its cones (alternately shaded), rays numbered as in the file, and the
   lattice points of its support in the window (for a lattice Z^2); a fan in
   rank 3 whose rays lie in an open half-space (e.g. a resolution of a cone): the
@@ -58,6 +59,7 @@ STYLE = """
 .lattice-point { fill: #333; }
 .hilbert-basis { fill: none; stroke: #c0392b; stroke-width: 2; }
 .ray-generator { fill: #2b5797; }
+.image-generator { fill: #b35900; }
 .section { stroke: #2b5797; stroke-width: 1.5; fill-opacity: 0.85; }
 .note { font-size: 11px; fill: #666; }
 """
@@ -686,6 +688,41 @@ def _positive_functional(rays):
     return None
 
 
+def morphism_panels(name: str, o: dict, objects: dict) -> list[Panel]:
+    """A morphism whose target is a plane cone: the target cone τ shaded, and the image f(σ)
+    of the source cone (the cone of the images of its rays and of ± its lineality) shaded over
+    it with its edges drawn, so one sees where σ lands in τ.  Needs the map, source and target
+    in the document (with user coordinates); otherwise nothing is drawn."""
+    f, src, tgt = (objects.get(o.get(k)) or {} for k in ("map", "source", "target"))
+    if not (f.get("kind") == "map" and src.get("kind") == "cone" and tgt.get("kind") == "cone"):
+        return []
+    if tgt.get("ambient_dim") != 2 or o.get("compatible") is False:
+        return []
+    rows = [_qv(r) for r in f["rows"]]
+    image = lambda v: tuple(_dot(r, _qv(v)) for r in rows)      # noqa: E731
+    gens = [image(v) for v in src["rays"]]
+    gens += [image(l) for l in src["lineality"]] + [tuple(-x for x in image(l)) for l in src["lineality"]]
+    gens = [g for g in gens if any(g)]
+    radius = _window(tgt["rays"] + [list(g) for g in gens])
+    panel = Panel(f"morphism {name}: {o['map']}({o['source']}) in {o['target']}",
+                  f"shaded: {o['target']}; darker: the image of {o['source']}")
+    plane = Plane(radius)
+    panel.body += _axes(plane)
+    poly = _region(plane, tgt["facets"], tgt["linear_equations"])
+    if len(poly) >= 3:
+        panel.body.append(_polygon(plane, poly, "region"))
+    normals = _plane_cone_normals(gens) if len(gens) >= 2 else None
+    if normals is not None:
+        poly = _region(plane, normals, [])
+        if len(poly) >= 3:
+            panel.body.append(_polygon(plane, poly, "region", FILLS[1]))
+    placer = Labels()
+    panel.body += _rays(plane, gens, [f"{o['map']}{_vec_text(v)}" for v in
+                                      list(src["rays"]) + list(src["lineality"]) * 2][:len(gens)], placer)
+    panel.body += _points(plane, gens, "image-generator", 3)
+    return [panel]
+
+
 def _gcd(a: int, b: int) -> int:
     while b:
         a, b = b, a % b
@@ -703,6 +740,8 @@ def render(doc: dict) -> str:
             lat = doc["objects"].get(o.get("lattice"), {})
             basis = lat.get("basis") if lat.get("kind") == "lattice" and "dual_of" not in lat else None
             panels = cone_panels(name, o, basis)
+        elif kind == "morphism":
+            panels = morphism_panels(name, o, doc["objects"])
         elif kind == "fan":
             lat = doc["objects"].get(o.get("lattice"), {})
             panels = fan_panels(name, o, standard=("basis" not in lat if lat.get("kind") == "lattice"
