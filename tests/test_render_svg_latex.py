@@ -410,3 +410,19 @@ def test_svg_morphism_draws_the_image_of_the_source_cone():
         .replace("images (1,0) (0,1) (1,1)", "images (1,0,0) (0,1,0) (0,0,1)")
     out = svg_mod.render(document(text3))
     assert "morphism phi" not in out
+
+
+def test_latex_long_equations_break_without_losing_factors():
+    # a long pullback (common practice, no source: a monomial with 30 factors) is a multline*
+    # whose lines joined give back the formula; short ones stay in align*, in their order
+    mono = " ".join(f"z_{{{i}}}^{{{i}}}" for i in range(1, 31))
+    rows = ["w_{1} &\\mapsto z_{1}", f"w_{{2}} &\\mapsto {mono}", "w_{3} &\\mapsto z_{2}"]
+    out = "\n".join(latex_mod._align(rows))
+    for env in ("align*", "multline*"):
+        assert out.count(rf"\begin{{{env}}}") == out.count(rf"\end{{{env}}}") >= 1
+    assert out.index("w_{1}") < out.index("w_{2}") < out.index("w_{3}")
+    body = re.search(r"\\begin\{multline\*\}\n(.*?)\n\\end\{multline\*\}", out, re.S).group(1)
+    lines = body.split(" \\\\\n")
+    assert len(lines) >= 3
+    assert " ".join(lines) == f"w_{{2}} \\mapsto {mono}"
+    assert all(line.count("{") == line.count("}") for line in lines)

@@ -162,11 +162,51 @@ def yesno(b) -> str:
     return "unknown" if b is None else ("yes" if b else "no")
 
 
+LONG_EQUATION = 70     # characters of an equation (commands left out) above which it is broken over lines
+
+
 def _align(lines: list[str]) -> list[str]:
-    """An ``align*`` environment with one equation per line (``lhs & rhs``)."""
-    if not lines:
-        return []
-    return [r"\begin{align*}", " \\\\\n".join(lines), r"\end{align*}"]
+    """An ``align*`` environment with one equation per line (``lhs & rhs``); an equation too
+    long for one line is set after it as a ``multline*``, broken between factors.
+
+    >>> long = "w_{1} &\\\\mapsto " + " ".join(f"z_{{{i}}}^{{{i}}}" for i in range(1, 17))
+    >>> print("\\n".join(_align(["a &= 0", long])))
+    \\begin{align*}
+    a &= 0
+    \\end{align*}
+    \\begin{multline*}
+    w_{1} \\mapsto z_{1}^{1} z_{2}^{2} z_{3}^{3} z_{4}^{4} z_{5}^{5} z_{6}^{6} z_{7}^{7} z_{8}^{8} \\\\
+    z_{9}^{9} z_{10}^{10} z_{11}^{11} z_{12}^{12} z_{13}^{13} z_{14}^{14} z_{15}^{15} \\\\
+    z_{16}^{16}
+    \\end{multline*}
+    """
+    out, run = [], []
+    for x in lines + [None]:                   # the order of the equations is kept
+        if x is not None and _source_length([x]) <= LONG_EQUATION:
+            run.append(x)
+            continue
+        if run:
+            out += [r"\begin{align*}", " \\\\\n".join(run), r"\end{align*}"]
+            run = []
+        if x is not None:
+            out += [r"\begin{multline*}", " \\\\\n".join(_break(x.replace("&", ""), 50)), r"\end{multline*}"]
+    return out
+
+
+def _break(math: str, width: int) -> list[str]:
+    """Split a long formula at spaces (between factors, before a sign) into pieces of about
+    ``width`` characters of source; braces are never split."""
+    pieces, cur, depth = [], "", 0
+    for tok in re.split(r"( )", math):
+        depth += tok.count("{") - tok.count("}")
+        if tok == " " and depth == 0 and _source_length([cur]) >= width:
+            pieces.append(cur.strip())
+            cur = ""
+            continue
+        cur += tok
+    if cur.strip():
+        pieces.append(cur.strip())
+    return pieces
 
 
 def _cfrac(bs) -> str:
