@@ -15,6 +15,8 @@ canonical basis of the lattice spanned by the rows.
 """
 from __future__ import annotations
 
+import functools
+
 from fractions import Fraction
 from math import gcd
 from typing import Iterable, Sequence
@@ -344,9 +346,11 @@ def primitive_mod(v: Sequence[int], basis: Sequence[Sequence[int]], ncols: int) 
     ``L`` is the saturated lattice with Hermite basis ``basis`` and ``v`` is not in ``span(L)``,
     as the canonical representative of its class (:func:`reduce_mod_hnf`).
 
-    Let ``S = span(L, v) ∩ Z^n``; ``S / L ≅ Z`` through the primitive functional ``φ`` on
-    ``S`` vanishing on ``L``, oriented so that ``φ(v) > 0``; the answer is the reduced ``w ∈ S``
-    with ``φ(w) = 1``, and ``v ≡ φ(v)·w (mod L)``.  Without ``L`` it is :func:`primitive`.
+    ``Z^n / L`` is free, and its dual is the lattice ``L^⊥`` of functionals vanishing on ``L``;
+    so ``x ↦ (<e_i, x>)_i`` for a basis ``e`` of ``L^⊥`` is onto ``Z^k`` with kernel ``L``.  The
+    class of ``v`` is ``g`` times the primitive class ``P v / g`` (``g`` the gcd of ``P v``),
+    lifted by a fixed section ``S`` (``P S = 1``) and reduced.  Without ``L`` it is
+    :func:`primitive`.
 
     >>> primitive_mod((1, 0), [(1, 1)], 2)       # in Z^2/Z(1,1) the class of (1,0) is primitive
     (0, -1)
@@ -355,16 +359,25 @@ def primitive_mod(v: Sequence[int], basis: Sequence[Sequence[int]], ncols: int) 
     """
     if not basis:
         return primitive(v)
+    lat, P, S = _quotient_map(tuple(tuple(int(x) for x in r) for r in basis), ncols)
+    image = [dot(e, v) for e in P]
+    g = gcd_vec(image)
+    if g == 0:
+        raise ValueError(f"{tuple(v)} lies in the lattice it is taken modulo")
+    t = [x // g for x in image]
+    w = [sum(S[j][i] * t[i] for i in range(len(t))) for j in range(ncols)]
+    return reduce_mod_hnf(w, lat)
+
+
+@functools.lru_cache(maxsize=4096)
+def _quotient_map(basis: tuple, ncols: int):
+    """For a saturated lattice L (any basis): its Hermite basis, a basis P of L^⊥ (the map
+    Z^n → Z^k with kernel L) and a section S with P S = 1 (columns: lifts of the unit vectors)."""
     lat = hnf(basis, ncols)
-    S = saturate(list(lat) + [tuple(v)], ncols)
-    St = transpose(S, ncols)
-    coords = [solve_integer(St, row, len(S)) for row in lat]
-    phi = kernel_basis(coords, len(S))[0]
-    cv = solve_integer(St, tuple(v), len(S))
-    if dot(phi, cv) < 0:
-        phi = tuple(-x for x in phi)
-    t = solve_integer([phi], (1,), len(S))
-    return reduce_mod_hnf(vec_mat(t, S, ncols), lat)
+    P = kernel_basis(lat, ncols)
+    cols = [solve_integer(P, tuple(int(i == j) for i in range(len(P))), ncols) for j in range(len(P))]
+    S = tuple(tuple(c[j] for c in cols) for j in range(ncols))
+    return lat, P, S
 
 
 def is_in_row_span(v: Sequence, rows: Sequence[Sequence], ncols: int | None = None) -> bool:
