@@ -185,7 +185,8 @@ def cmd_show(args) -> int:
     if fmt in ("text", "markdown"):
         for d in doc["diagnostics"]:
             print(f"{path}:{d['line']}:{d['column']}: {d['severity']}: {d['message']} [{d['code']}]", file=sys.stderr)
-    out = r.render(doc)
+    out = (r.render(doc, whole_document=True) if fmt == "latex" and args.whole_document
+           else r.render(doc))
     sys.stdout.write(out if out.endswith("\n") else out + "\n")
     return 1 if any(d["severity"] == "error" for d in doc["diagnostics"]) else 0
 
@@ -260,6 +261,8 @@ def build_parser() -> argparse.ArgumentParser:
     s.add_argument("path", metavar="PATH")
     s.add_argument("names", nargs="*", metavar="NAME")
     s.add_argument("--format", choices=FORMATS, default="text")
+    s.add_argument("--whole-document", action="store_true",
+                   help="with --format latex: a complete document instead of a fragment to \\input")
     s.add_argument("--budget", type=_budget, default=gbudget.DEFAULT_LIMIT, help=budget_help)
     s.set_defaults(run=cmd_show)
 

@@ -107,12 +107,21 @@ def Q_(*xs):
 
 def test_svg_lattice_points_of_an_overlattice():
     # N = Z^2 + Z (1/7, 3/7): its points are (a/7, b/7) with b ≡ 3a (mod 7)
+    # changed deliberately (issue 15 item 8): the picture is drawn in the lattice's own
+    # coordinates, in the basis b1 = (1/7, 3/7), b2 = (0, 1) shown for Q; there the orthant is
+    # cone((0,1), (7,-3)) ((1,0) = 7 b1 - 3 b2) and its points are the integer grid
     doc = document(PLANE)
-    root = ET.fromstring(svg_mod.render(doc))
-    R = doc["objects"]["q"]["lattice_window"]
-    want = {(Fraction(a, 7), Fraction(b, 7)) for a in range(0, 7 * R + 1) for b in range(0, 7 * R + 1)
-            if (b - 3 * a) % 7 == 0}
+    out = svg_mod.render(doc)
+    root = ET.fromstring(out)
+    assert doc["objects"]["Q"]["basis"] == [["1/7", "3/7"], [0, 1]]
+    side = 7            # the window reaches the ray (7, -3)
+    coords = [(a, b) for a in range(-side, side + 1) for b in range(-side, side + 1)
+              if in_cone2((a, b), (0, 1), (7, -3))]
+    want = {(Fraction(a, 7), Fraction(3 * a, 7) + b) for a, b in coords}
+    # every user point drawn is in Q: (a/7, b'/7) with b' ≡ 3a (mod 7)
+    assert all((p[1] * 7 - 3 * p[0] * 7) % 7 == 0 for p in want)
     assert panel_points(root, "cone q", "lattice-point") == want
+    assert "in the coordinates of the lattice basis" in out
     # Fulton §2.2 (from memory): the orthant in this lattice is the cyclic quotient 1/7(1,3)
     # type, and its Hilbert basis in the window is the brute-force one
     assert panel_points(root, "cone q", "hilbert-basis") == brute_hilbert_basis(want)
@@ -143,10 +152,14 @@ def test_svg_cross_sections_are_exact_pictures():
     o = doc["objects"]["w"]
     assert panel_points(root, "cone w", "ray-generator") == {Q_(*r) for r in o["rays"]}
     hb_drawn = panel_points(root, "cone w", "hilbert-basis")
-    assert hb_drawn == {Q_(*h) for h in o["hilbert_basis"]} - {Q_(*r) for r in o["rays"]}
+    # changed deliberately (issue 15 item 8): the corners are ringed too, being in the basis
+    assert hb_drawn == {Q_(*h) for h in o["hilbert_basis"]}
+    # the section of this Q-Gorenstein cone is at the level where the corners lie: m with
+    # <m, v> = 1 on e1, e2, (1,1,4) is (1,1,-1/4) (by hand), primitive (4,4,-1), level 4
+    assert "section by &lt;(4, 4, -1), x&gt; = 4" in out
     # the section coordinates are an isometric picture of σ ∩ {<w, x> = 1}: compare all
     # pairwise distances with those of the points p / <w, p> in Q^3 (sympy, exact)
-    wv = tuple(sum(Fraction(u[i]) for u in o["facets"]) for i in range(3))
+    wv = (4, 4, -1)
     pts = [tuple(Fraction(x) for x in p) for p in o["rays"] + o["hilbert_basis"]]
     coords, (n1, n2) = svg_mod.section_coordinates(pts, wv)
     plane = [(float(s) * n1, float(t) * n2) for s, t in coords]
@@ -244,7 +257,7 @@ def test_latex_equations_are_the_computed_ones():
 
 @pytest.mark.skipif(shutil.which("pdflatex") is None, reason="no TeX installation")
 def test_latex_compiles(tmp_path):
-    tex = latex_mod.render(document(ALL + PLANE.replace("lattice N = Z^2\n", "lattice N = Z^2\n", 1)
+    tex = latex_mod.render(whole_document=True, doc=document(ALL + PLANE.replace("lattice N = Z^2\n", "lattice N = Z^2\n", 1)
                                     .replace("lattice Q", "lattice Q2").replace(" in Q ", " in Q2 ")
                                     .replace("cone q", "cone q2").replace("cone s", "cone s2")
                                     .replace("resolve s", "resolve s2").replace("fan R", "fan R2")
@@ -298,4 +311,118 @@ def test_cli_show_formats(tmp_path, capsys, fmt):
     if fmt == "svg":
         ET.fromstring(out)
     else:
-        assert out.rstrip().endswith(r"\end{document}")
+        # changed deliberately (issue 15 item 8): a fragment to \input by default, a whole
+        # document with --whole-document
+        assert r"\begin{document}" not in out and r"\subsection*" in out
+        assert main(["show", str(path), "--format", fmt, "--whole-document"]) == 0
+        assert capsys.readouterr().out.rstrip().endswith(r"\end{document}")
+
+
+def test_latex_long_lists_break_across_lines_and_prose_has_no_internal_names():
+    # issue 15 item 8: the Hilbert basis of wedge_a (6 vectors) is a display with at most 4
+    # vectors a line, and those are exactly the computed ones
+    doc = document(ALL)
+    tex = latex_mod.render(doc)
+    block = re.search(r"Hilbert basis of \$\\sigma \\cap N\$:\n\\begin\{align\*\}\n(.*?)\n\\end\{align\*\}",
+                      tex, re.S).group(1)
+    rows = block.split("\\\\\n")
+    assert len(rows) >= 2 and all(row.count("(") <= 4 for row in rows)
+    got = [tuple(int(x) for x in m.split(", ")) for m in re.findall(r"\(([-\d, ]+)\)", block)]
+    assert got == [tuple(v) for v in doc["objects"]["wedge_a"]["hilbert_basis"]]
+    # outside names (\texttt{…}) there is no escaped underscore: no internal name in prose
+    # (the diagnostics quote the user's names and are left out)
+    prose = re.sub(r"\\texttt\{[^}]*\}", "", tex.split(r"\subsection*{Diagnostics}")[0])
+    assert r"\_" not in prose
+    kinds = doc["objects"]["phi"]["kinds"]
+    assert any("_" in k for k in kinds) and all(k.replace("_", " ") in tex for k in kinds)
+
+
+def test_svg_labels_never_overlap():
+    # crowded labels: many rays close together in the plane, a fan with long labels, and the
+    # sections of the file SPACE; every panel's label boxes are pairwise disjoint
+    crowded = ("lattice N = Z^2\nfan F in N { rays " + " ".join(f"(8,{k})" for k in range(-6, 7))
+               + " cones " + " ".join(f"[{i} {i + 1}]" for i in range(1, 13)) + " }\n"
+               "cone c in N { rays (7,-6) (7,6) }\n")
+    for text in (crowded, SPACE, PLANE):
+        out = svg_mod.render(document(text))
+        ET.fromstring(out)
+        for boxes in svg_mod.label_boxes(out):
+            for a, b in itertools.combinations(boxes, 2):
+                assert not (a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]), (a, b)
+            for box in boxes:
+                assert 0 <= box[0] and box[2] <= svg_mod.PANEL and 0 <= box[1] and box[3] <= svg_mod.PANEL
+    # labels left out for lack of room are kept as hover titles: one per ray in all
+    out = svg_mod.render(document(crowded))
+    root = ET.fromstring(out)
+    fan = next(g for g in root.iter("{http://www.w3.org/2000/svg}g") if g.get("class") == "panel")
+    shown = [t for t in fan.iter("{http://www.w3.org/2000/svg}text") if t.get("class") == "ray-label"]
+    thinned = [c for c in fan.iter("{http://www.w3.org/2000/svg}circle") if c.get("class") == "thinned-label"]
+    assert len(shown) + len(thinned) == 13
+    # twenty labels at one point cannot all be placed: the rest are thinned, none overlap
+    placer = svg_mod.Labels()
+    marks = [placer.place(150, 150, f"label {i}") for i in range(20)]
+    assert 0 < sum("thinned-label" in m for m in marks) < 20
+    for a, b in itertools.combinations(placer.boxes, 2):
+        assert not (a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3])
+
+
+def test_svg_cone_with_a_line_draws_no_spurious_edge():
+    # the half-plane {x >= y}: its boundary is the line through ±(1,1); the generator of the
+    # pointed part is a marked point, not an edge
+    doc = document("lattice N = Z^2\ncone h in N { halfspaces (1,-1) }\n")
+    root = ET.fromstring(svg_mod.render(doc))
+    panel = next(g for g in root.iter("{http://www.w3.org/2000/svg}g") if g.get("class") == "panel")
+    edges = [l for l in panel.iter("{http://www.w3.org/2000/svg}line") if l.get("class") == "ray"]
+    assert len(edges) == 2
+    for l in edges:      # both along the diagonal through the centre: x - 150 = -(y - 150)
+        x2, y2 = float(l.get("x2")) - 150, float(l.get("y2")) - 150
+        assert abs(x2 + y2) < 1e-6
+
+
+def test_svg_fan_pictures_show_the_lattice_points_of_the_support():
+    # brute force: a point of the window is in cone(u, w) by Cramer's rule (in_cone2), or on a ray
+    doc = document(PLANE + "fan G in N { rays (1,0) (1,1) (-1,2) cones [1 2] [3] }\n")
+    root = ET.fromstring(svg_mod.render(doc))
+    R = max(abs(c) for r in doc["objects"]["P"]["rays"] for c in r)
+    got = panel_points(root, "fan P", "lattice-point")
+    # P^2 is complete (Fulton §1.4, from memory): every point of the window is drawn
+    assert len(got) >= 49 and all(max(abs(c) for c in p) <= 3 for p in got)
+    side = int(max(max(abs(c) for c in p) for p in got))
+    assert len(got) == (2 * side + 1) ** 2
+    got = panel_points(root, "fan G", "lattice-point")
+    side = int(max(max(abs(c) for c in p) for p in got))
+    box = itertools.product(range(-side, side + 1), repeat=2)
+    want = {Q_(*p) for p in box if in_cone2(p, (1, 0), (1, 1))
+            or (p[0] * 2 + p[1] == 0 and p[1] >= 0)}
+    assert got == want and R >= 1
+
+
+def test_svg_morphism_draws_the_image_of_the_source_cone():
+    # the README's tour: f(e1) = (1,0), f(e2) = (0,1), f(1,1,4) = (1,0) + (0,1) + 4 (1,1) = (5,5)
+    # (by hand); the picture is drawn in the target's plane
+    text = ("lattice N = Z^3\nlattice P = Z^2\ncone wedge in N { rays (1,0,0) (0,1,0) (1,1,4) }\n"
+            "cone target in P { rays (1,0) (0,1) }\nmap f : N -> P { images (1,0) (0,1) (1,1) }\n"
+            "morphism phi = f : wedge -> target\n")
+    root = ET.fromstring(svg_mod.render(document(text)))
+    assert panel_points(root, "morphism phi", "image-generator") == {Q_(1, 0), Q_(0, 1), Q_(5, 5)}
+    # a morphism into a 3-dimensional cone is not drawn
+    text3 = text.replace("lattice P = Z^2", "lattice P = Z^3").replace("(1,0) (0,1) }", "(1,0,0) (0,1,0) (0,0,1) }") \
+        .replace("images (1,0) (0,1) (1,1)", "images (1,0,0) (0,1,0) (0,0,1)")
+    out = svg_mod.render(document(text3))
+    assert "morphism phi" not in out
+
+
+def test_latex_long_equations_break_without_losing_factors():
+    # a long pullback (common practice, no source: a monomial with 30 factors) is a multline*
+    # whose lines joined give back the formula; short ones stay in align*, in their order
+    mono = " ".join(f"z_{{{i}}}^{{{i}}}" for i in range(1, 31))
+    rows = ["w_{1} &\\mapsto z_{1}", f"w_{{2}} &\\mapsto {mono}", "w_{3} &\\mapsto z_{2}"]
+    out = "\n".join(latex_mod._align(rows))
+    for env in ("align*", "multline*"):
+        assert out.count(rf"\begin{{{env}}}") == out.count(rf"\end{{{env}}}") >= 1
+    assert out.index("w_{1}") < out.index("w_{2}") < out.index("w_{3}")
+    body = re.search(r"\\begin\{multline\*\}\n(.*?)\n\\end\{multline\*\}", out, re.S).group(1)
+    lines = body.split(" \\\\\n")
+    assert len(lines) >= 3
+    assert " ".join(lines) == f"w_{{2}} \\mapsto {mono}"
+    assert all(line.count("{") == line.count("}") for line in lines)

@@ -3,13 +3,18 @@
 A :class:`Cone` ``σ ⊆ Q^d`` is stored as
 
 * ``lineality`` – canonical basis (row HNF) of the lattice ``(σ ∩ -σ) ∩ Z^d``;
-* ``rays`` – the primitive generators of the extremal rays of the *pointed part*
-  ``σ ∩ lin(σ)^⊥`` (Euclidean orthogonal complement of the lineality space), sorted.  So
-  ``σ = cone(rays) + span(lineality)`` and every ray is orthogonal to the lineality space;
+* ``rays`` – one generator of each extremal ray of the *pointed part* ``σ / lin(σ)``, sorted:
+  the class of the generator is primitive in ``N / L`` (``L = lin(σ) ∩ Z^d``) and the
+  generator is the canonical representative of its class, reduced modulo the Hermite basis of
+  ``L`` (``linalg.primitive_mod``).  So ``σ = cone(rays) + span(lineality)``, and a vector
+  ``v`` with ``<u, v> = 1`` for a facet normal ``u`` exists on every ray of a simplicial cone
+  exactly when the lattice allows it (the pairing is computed in the quotient);
 * ``equations`` – canonical basis (row HNF) of ``σ^⊥ ∩ Z^d`` (the lineality of the dual);
-* ``facets`` – primitive inner normals of the facets, sorted, each chosen inside the linear
-  span of σ (i.e. orthogonal to the equations).  Together with the equations they cut out σ:
-  ``σ = {v : <e, v> = 0 for e in equations, <u, v> >= 0 for u in facets}``.
+* ``facets`` – inner normals of the facets, sorted, chosen the same way on the dual side:
+  primitive in ``M / σ^⊥`` and reduced modulo the Hermite basis of the equations (so the
+  facet normal of a ray ``cone(v)`` pairs to 1 with ``v``).  Together with the equations they
+  cut out σ: ``σ = {v : <e, v> = 0 for e in equations, <u, v> >= 0 for u in facets}``.
+  For a pointed, full-dimensional cone both are the usual primitive vectors.
 
 The construction is symmetric: the dual cone ``σ^∨`` has rays = facets of σ, lineality =
 equations of σ, and vice versa, so :func:`dual` is free and ``dual(dual(σ)) == σ``.  Since
@@ -234,9 +239,9 @@ def extreme_rays(ineqs: Iterable[Sequence[int]], eqs: Iterable[Sequence[int]], d
                  budget: Budget | None = None) -> tuple[tuple[Vec, ...], tuple[Vec, ...]]:
     """Generators of ``{x in Q^d : <a, x> >= 0 for a in ineqs, <e, x> = 0 for e in eqs}``.
 
-    Returns ``(rays, lineality)``: ``lineality`` is the HNF basis of the lineality lattice,
-    ``rays`` are the sorted primitive generators of the extremal rays of the intersection of
-    the cone with the orthogonal complement of its lineality space.
+    Returns ``(rays, lineality)``: ``lineality`` is the HNF basis of the lineality lattice L,
+    ``rays`` are the sorted generators of the extremal rays modulo L, each primitive in
+    ``Z^d / L`` and reduced modulo the Hermite basis of L (``linalg.primitive_mod``).
 
     >>> extreme_rays([(1, 0), (0, 1)], [], 2)
     (((0, 1), (1, 0)), ())
@@ -258,31 +263,12 @@ def extreme_rays(ineqs: Iterable[Sequence[int]], eqs: Iterable[Sequence[int]], d
                     if any(r := tuple(dot(a, w) for w in W))))
     budget.tick(len(Ay) * k, "double description")
     ys = _dd_pointed(Ay, k, budget)
-    rays = sorted(set(primitive(linalg.vec_mat(y, W, d)) for y in ys))
+    rays = sorted(set(linalg.primitive_mod(linalg.vec_mat(y, W, d), L, d) for y in ys))
     return tuple(rays), L
 
 
 # ---------------------------------------------------------------------------------------------
 # construction
-
-
-def _project_out(v: Vec, basis: Sequence[Vec]) -> Vec:
-    """The primitive vector on the ray of the Euclidean projection of ``v`` onto the orthogonal
-    complement of ``span(basis)`` (``v`` itself made primitive when ``basis`` is empty; the
-    zero vector when ``v`` lies in the span)."""
-    if not basis:
-        return primitive(v)
-    gram = [[dot(a, b) for b in basis] for a in basis]
-    coef = linalg.solve_rational(gram, [dot(a, v) for a in basis], len(basis))
-    den = 1
-    for x in coef:
-        den = lcm(den, Fraction(x).denominator)
-    out = [den * x for x in v]
-    for c, a in zip(coef, basis):
-        c = int(c * den)
-        if c:
-            out = [x - c * y for x, y in zip(out, a)]
-    return primitive(out)
 
 
 def _irredundant(cands: Sequence[Vec], other: Sequence[Vec], space: Sequence[Vec], d: int,
@@ -312,7 +298,7 @@ def _irredundant(cands: Sequence[Vec], other: Sequence[Vec], space: Sequence[Vec
     keep = set()
     for m in masks:
         if not any(m2 != m and m2 & m == m for m2 in masks):
-            keep.add(_project_out(by_mask[m], space))
+            keep.add(linalg.primitive_mod(by_mask[m], space, d))
     return tuple(sorted(keep))
 
 

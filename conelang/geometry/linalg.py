@@ -15,6 +15,8 @@ canonical basis of the lattice spanned by the rows.
 """
 from __future__ import annotations
 
+import functools
+
 from fractions import Fraction
 from math import gcd
 from typing import Iterable, Sequence
@@ -318,6 +320,64 @@ def saturate(rows: Sequence[Sequence[int]], ncols: int | None = None) -> Matrix:
         return ()
     n, ir = _int_rows(rows, ncols)
     return kernel_basis(kernel_basis(ir, n), n)
+
+
+def reduce_mod_hnf(v: Sequence[int], basis: Sequence[Sequence[int]]) -> Vec:
+    """The canonical representative of ``v + L`` for the lattice ``L`` with row Hermite basis
+    ``basis``: each pivot coordinate brought into ``[0, pivot)``, top row first (later rows do
+    not change earlier pivot columns, so the result is unique).
+
+    >>> reduce_mod_hnf((5, 7), [(2, 3)])
+    (1, 1)
+    >>> reduce_mod_hnf((1, -1), [(1, 1)])
+    (0, -2)
+    """
+    w = [int(x) for x in v]
+    for row in basis:
+        p = next(i for i, x in enumerate(row) if x)
+        q = w[p] // row[p]
+        if q:
+            w = [a - q * b for a, b in zip(w, row)]
+    return tuple(w)
+
+
+def primitive_mod(v: Sequence[int], basis: Sequence[Sequence[int]], ncols: int) -> Vec:
+    """The primitive generator of the ray through the class of ``v`` in ``Z^n / L``, where
+    ``L`` is the saturated lattice with Hermite basis ``basis`` and ``v`` is not in ``span(L)``,
+    as the canonical representative of its class (:func:`reduce_mod_hnf`).
+
+    ``Z^n / L`` is free, and its dual is the lattice ``L^⊥`` of functionals vanishing on ``L``;
+    so ``x ↦ (<e_i, x>)_i`` for a basis ``e`` of ``L^⊥`` is onto ``Z^k`` with kernel ``L``.  The
+    class of ``v`` is ``g`` times the primitive class ``P v / g`` (``g`` the gcd of ``P v``),
+    lifted by a fixed section ``S`` (``P S = 1``) and reduced.  Without ``L`` it is
+    :func:`primitive`.
+
+    >>> primitive_mod((1, 0), [(1, 1)], 2)       # in Z^2/Z(1,1) the class of (1,0) is primitive
+    (0, -1)
+    >>> primitive_mod((2, 4, 1), [(0, 1, 0)], 3), primitive_mod((6, 4), [], 2)
+    ((2, 0, 1), (3, 2))
+    """
+    if not basis:
+        return primitive(v)
+    lat, P, S = _quotient_map(tuple(tuple(int(x) for x in r) for r in basis), ncols)
+    image = [dot(e, v) for e in P]
+    g = gcd_vec(image)
+    if g == 0:
+        raise ValueError(f"{tuple(v)} lies in the lattice it is taken modulo")
+    t = [x // g for x in image]
+    w = [sum(S[j][i] * t[i] for i in range(len(t))) for j in range(ncols)]
+    return reduce_mod_hnf(w, lat)
+
+
+@functools.lru_cache(maxsize=4096)
+def _quotient_map(basis: tuple, ncols: int):
+    """For a saturated lattice L (any basis): its Hermite basis, a basis P of L^⊥ (the map
+    Z^n → Z^k with kernel L) and a section S with P S = 1 (columns: lifts of the unit vectors)."""
+    lat = hnf(basis, ncols)
+    P = kernel_basis(lat, ncols)
+    cols = [solve_integer(P, tuple(int(i == j) for i in range(len(P))), ncols) for j in range(len(P))]
+    S = tuple(tuple(c[j] for c in cols) for j in range(ncols))
+    return lat, P, S
 
 
 def is_in_row_span(v: Sequence, rows: Sequence[Sequence], ncols: int | None = None) -> bool:

@@ -1,8 +1,10 @@
 """LaTeX output of the computed facts (``conelang show FILE --format latex``), for papers.
 
-:func:`render` returns a complete document (``article`` with ``amsmath`` and ``amssymb``);
-:func:`render_body` returns only what goes between ``\\begin{document}`` and
-``\\end{document}``, to paste into a paper.  Everything taken from the file (names, the file
+:func:`render` returns a fragment to ``\\input`` into a paper (it needs ``amsmath`` and
+``amssymb``); ``render(doc, whole_document=True)`` (``conelang show --format latex
+--whole-document``) wraps it in a complete ``article``.  Long lists of vectors and of
+coordinates are set as ``align*`` displays with a few entries per line, so they break across
+lines; internal names (``open_embedding``) are written as words in prose.  Everything taken from the file (names, the file
 name, messages) is escaped; polynomials such as ``z1*z3 - z2^2`` become ``z_{1} z_{3} -
 z_{2}^{2}``; rational coordinates become ``\\tfrac{p}{q}``; abelian groups such as
 ``Z^2 + Z/3`` become ``\\mathbb{Z}^{2} \\oplus \\mathbb{Z}/3``.
@@ -94,6 +96,38 @@ def vectors(vs, empty: str = r"\varnothing") -> str:
     return r",\allowbreak\ ".join(vector(v) for v in vs) if vs else empty
 
 
+LONG = 60          # characters of coordinates above which a list is displayed over several lines
+
+
+def _source_length(items) -> int:
+    return sum(len(re.sub(r"\\[A-Za-z]+|[{}]", "", x)) + 2 for x in items)
+
+
+def display_list(lead: str, items: list[str], per_line: int = 4) -> list[str]:
+    """``lead`` followed by the math ``items``: inline when short, else an ``align*`` with
+    ``per_line`` items a line (so a long Hilbert basis breaks across lines).
+
+    >>> display_list("rays", ["(1, 0)", "(0, 1)"])
+    ['rays $(1, 0), (0, 1)$']
+    >>> print("\\n".join(display_list("points", [f"({i}, 1)" for i in range(12)], 4)))
+    points
+    \\begin{align*}
+    &(0, 1), (1, 1), (2, 1), (3, 1), \\\\
+    &(4, 1), (5, 1), (6, 1), (7, 1), \\\\
+    &(8, 1), (9, 1), (10, 1), (11, 1)
+    \\end{align*}
+    """
+    if _source_length(items) <= LONG:
+        return [f"{lead} $" + ", ".join(items) + "$"]
+    rows = [", ".join(items[i:i + per_line]) for i in range(0, len(items), per_line)]
+    return [lead, r"\begin{align*}", ", \\\\\n".join("&" + r for r in rows), r"\end{align*}"]
+
+
+def words(s: str) -> str:
+    """An internal name (``open_embedding``) as words in prose, escaped: ``open embedding``."""
+    return escape_text(str(s).replace("_", " "))
+
+
 _POLY_OK = re.compile(r"^[A-Za-z0-9*^+\-() /]*$")
 
 
@@ -130,11 +164,51 @@ def yesno(b) -> str:
     return "unknown" if b is None else ("yes" if b else "no")
 
 
+LONG_EQUATION = 70     # characters of an equation (commands left out) above which it is broken over lines
+
+
 def _align(lines: list[str]) -> list[str]:
-    """An ``align*`` environment with one equation per line (``lhs & rhs``)."""
-    if not lines:
-        return []
-    return [r"\begin{align*}", " \\\\\n".join(lines), r"\end{align*}"]
+    """An ``align*`` environment with one equation per line (``lhs & rhs``); an equation too
+    long for one line is set after it as a ``multline*``, broken between factors.
+
+    >>> long = "w_{1} &\\\\mapsto " + " ".join(f"z_{{{i}}}^{{{i}}}" for i in range(1, 17))
+    >>> print("\\n".join(_align(["a &= 0", long])))
+    \\begin{align*}
+    a &= 0
+    \\end{align*}
+    \\begin{multline*}
+    w_{1} \\mapsto z_{1}^{1} z_{2}^{2} z_{3}^{3} z_{4}^{4} z_{5}^{5} z_{6}^{6} z_{7}^{7} z_{8}^{8} \\\\
+    z_{9}^{9} z_{10}^{10} z_{11}^{11} z_{12}^{12} z_{13}^{13} z_{14}^{14} z_{15}^{15} \\\\
+    z_{16}^{16}
+    \\end{multline*}
+    """
+    out, run = [], []
+    for x in lines + [None]:                   # the order of the equations is kept
+        if x is not None and _source_length([x]) <= LONG_EQUATION:
+            run.append(x)
+            continue
+        if run:
+            out += [r"\begin{align*}", " \\\\\n".join(run), r"\end{align*}"]
+            run = []
+        if x is not None:
+            out += [r"\begin{multline*}", " \\\\\n".join(_break(x.replace("&", ""), 50)), r"\end{multline*}"]
+    return out
+
+
+def _break(math: str, width: int) -> list[str]:
+    """Split a long formula at spaces (between factors, before a sign) into pieces of about
+    ``width`` characters of source; braces are never split."""
+    pieces, cur, depth = [], "", 0
+    for tok in re.split(r"( )", math):
+        depth += tok.count("{") - tok.count("}")
+        if tok == " " and depth == 0 and _source_length([cur]) >= width:
+            pieces.append(cur.strip())
+            cur = ""
+            continue
+        cur += tok
+    if cur.strip():
+        pieces.append(cur.strip())
+    return pieces
 
 
 def _cfrac(bs) -> str:
@@ -158,20 +232,30 @@ def _cone(n: str, o: dict) -> list[str]:
     lin = ""
     if o["lineality"]:
         lin = r" + \operatorname{span}\bigl(" + vectors(o["lineality"]) + r"\bigr)"
-    L.append(r"\item rays: $\sigma = \operatorname{cone}\bigl(" + vectors(o["rays"], "") + r"\bigr)" + lin + "$")
-    L.append(r"\item inner facet normals (in the dual lattice): $" + vectors(o["facets"]) + "$")
+    if _source_length([vector(r) for r in o["rays"] + o["lineality"]]) <= LONG:
+        L.append(r"\item rays: $\sigma = \operatorname{cone}\bigl(" + vectors(o["rays"], "") + r"\bigr)" + lin + "$")
+    else:
+        L += display_list(r"\item rays of $\sigma$:", [vector(r) for r in o["rays"]])
+        if o["lineality"]:
+            L += display_list(r"\item and the lineality space spanned by", [vector(r) for r in o["lineality"]])
+    L += display_list(r"\item inner facet normals (in the dual lattice):", [vector(r) for r in o["facets"]]
+                      or [r"\varnothing"])
     if o["linear_equations"]:
-        L.append(r"\item equations of the linear span: $" + vectors(o["linear_equations"]) + "$")
+        L += display_list(r"\item equations of the linear span:", [vector(r) for r in o["linear_equations"]])
     if "hilbert_basis" in o:
-        L.append(r"\item Hilbert basis of $\sigma \cap N$: $" + vectors(o["hilbert_basis"]) + "$")
+        L += display_list(r"\item Hilbert basis of $\sigma \cap N$:", [vector(r) for r in o["hilbert_basis"]]
+                          or [r"\varnothing"])
     L.append(r"\end{itemize}")
     var = o.get("variety")
     if var:
         r = var["embedding_dimension"]
         L.append(rf"The affine toric variety $U_{{\sigma}} = \operatorname{{Spec}} \mathbb{{C}}[\sigma^\vee \cap M]"
                  rf" \subseteq \mathbb{{C}}^{{{r}}}$ has dimension {var['dimension']} and coordinates")
-        L.append(r"\[ " + r",\quad ".join(rf"z_{{{i}}} = \chi^{{{vector(g)}}}" for i, g in
-                                          enumerate(var["generators"], 1)) + r" \]")
+        coords = [rf"z_{{{i}}} = \chi^{{{vector(g)}}}" for i, g in enumerate(var["generators"], 1)]
+        if _source_length(coords) <= LONG:
+            L.append(r"\[ " + r",\quad ".join(coords) + r" \]")
+        else:
+            L += display_list("", coords, per_line=3)[1:]
         if "equations" not in var:
             L.append(f"(equations: {missing_equations(o)}).")
         elif var["equations"]:
@@ -213,7 +297,7 @@ def _morphism(n: str, o: dict) -> list[str]:
     if o.get("violation"):
         L.append("Not a morphism: " + escape_text(o["violation"]))
     if o.get("kinds"):
-        L.append(escape_text(", ".join(o["kinds"])) + ".")
+        L.append(words(", ".join(o["kinds"])) + ".")
     if o.get("pullbacks"):
         L.append("Pullbacks of the coordinates of the target:")
         L += _align([rf"w_{{{j}}} &\mapsto {poly(p)}" for j, p in enumerate(o["pullbacks"], 1)])
@@ -312,7 +396,10 @@ def render_body(doc: dict) -> str:
     return "\n".join(L) + "\n"
 
 
-def render(doc: dict) -> str:
-    """A complete LaTeX document with the facts of every object."""
-    return (f"% facts computed by conelang from {escape_text(doc.get('file', ''))}\n" + PREAMBLE
-            + render_body(doc) + "\\end{document}\n")
+def render(doc: dict, whole_document: bool = False) -> str:
+    """The facts of every object as a fragment to ``\\input`` (needs ``amsmath``, ``amssymb``),
+    or, with ``whole_document``, as a complete document."""
+    head = f"% facts computed by conelang from {escape_text(doc.get('file', ''))}\n"
+    if not whole_document:
+        return head + "% a fragment to \\input; it needs \\usepackage{amsmath,amssymb}\n" + render_body(doc)
+    return head + PREAMBLE + render_body(doc) + "\\end{document}\n"

@@ -6,12 +6,16 @@ document.  Each drawable object gets a row of panels; rows are stacked:
 * a cone in a lattice of rank 2: the cone (shaded, clipped to the window ``[-R, R]^2`` of
   user coordinates), its rays, its lattice points in the window and its Hilbert basis
   (ringed); a second panel shows the dual cone with its lattice points and the Hilbert basis
-  of the dual monoid (the coordinates z_i of U_σ);
+  of the dual monoid (the coordinates z_i of U_σ).  A cone of an overlattice whose lattice is
+  in the document (with its ``basis``) is drawn in the lattice's own coordinates instead, so
+  its points are the integer grid (``data-point`` keeps the user coordinates);
 * a cone in a lattice of rank 3: the cross-section ``σ ∩ {<w, x> = 1}`` for ``w`` = the sum
   of the inner facet normals (an interior vector of the dual, positive on σ ∖ 0), projected
   exactly to an orthogonal rational basis of ``w^⊥``, with the rays as vertices and the
   Hilbert basis elements ``h`` drawn at ``h / <w, h>``; the dual cone likewise;
-* a fan in rank 2: its cones (alternately shaded), rays numbered as in the file; a fan in
+* a morphism into a plane cone: the target cone with the image of the source cone over it;
+* a fan in rank 2: its cones (alternately shaded), rays numbered as in the file, and the
+  lattice points of its support in the window (for a lattice Z^2); a fan in
   rank 3 whose rays lie in an open half-space (e.g. a resolution of a cone): the
   cross-section of all its cones.
 
@@ -55,6 +59,7 @@ STYLE = """
 .lattice-point { fill: #333; }
 .hilbert-basis { fill: none; stroke: #c0392b; stroke-width: 2; }
 .ray-generator { fill: #2b5797; }
+.image-generator { fill: #b35900; }
 .section { stroke: #2b5797; stroke-width: 1.5; fill-opacity: 0.85; }
 .note { font-size: 11px; fill: #666; }
 """
@@ -102,6 +107,59 @@ def _clip(poly, a, b, c):
         if (fp >= 0) != (fq >= 0):
             t = fp / (fp - fq)
             out.append((p[0] + t * (q[0] - p[0]), p[1] + t * (q[1] - p[1])))
+    return out
+
+
+# ---------------------------------------------------------------------------------------------
+# labels that never overlap
+
+
+LABEL_H = 11         # height of a label (font-size 10 plus a little), in SVG units
+LABEL_W = 6          # width of one character (an upper bound for the 10px sans-serif font)
+
+
+class Labels:
+    """Places the labels of one panel so that no two overlap: each label tries a few positions
+    around its point and takes the first whose box is inside the panel and meets no placed
+    box; a label with no free position is left out (thinned) and its text kept as the
+    ``<title>`` of an invisible mark, so it still shows on hover."""
+
+    OFFSETS = ((5, -5), (5, 13), (-5, -5), (-5, 13), (5, -16), (5, 24), (-5, -16), (-5, 24))
+
+    def __init__(self):
+        self.boxes: list[tuple[float, float, float, float]] = []
+
+    @staticmethod
+    def _meets(a, b) -> bool:
+        return a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]
+
+    def place(self, x: float, y: float, text: str, cls: str = "ray-label") -> str:
+        w = LABEL_W * len(text)
+        for dx, dy in self.OFFSETS:
+            left = x + dx if dx > 0 else x + dx - w
+            box = (left, y + dy - LABEL_H + 2, left + w, y + dy + 2)
+            if box[0] < 0 or box[2] > PANEL or box[1] < 0 or box[3] > PANEL:
+                continue
+            if any(self._meets(box, b) for b in self.boxes):
+                continue
+            self.boxes.append(box)
+            return f'<text class="{cls}" x="{_f(left)}" y="{_f(y + dy)}">{escape(text)}</text>'
+        return (f'<circle class="thinned-label" cx="{_f(x)}" cy="{_f(y)}" r="4" fill-opacity="0">'
+                f'<title>{escape(text)}</title></circle>')
+
+
+def label_boxes(svg_text: str) -> list[list[tuple[float, float, float, float]]]:
+    """The boxes of the labels of each panel of a rendered picture (for tests), in the same
+    estimate :class:`Labels` uses."""
+    import re
+    out = []
+    for panel in svg_text.split('<g class="panel"')[1:]:
+        boxes = []
+        for m in re.finditer(r'<text class="ray-label" x="([-\d.]+)" y="([-\d.]+)">([^<]*)</text>', panel):
+            x, y = float(m.group(1)), float(m.group(2))
+            n = len(m.group(3).replace("&amp;", "&").replace("&lt;", "<").replace("&gt;", ">"))
+            boxes.append((x, y - LABEL_H + 2, x + LABEL_W * n, y + 2))
+        out.append(boxes)
     return out
 
 
@@ -198,7 +256,8 @@ def _points(plane: Plane, pts, cls: str, r: float) -> list[str]:
     return out
 
 
-def _rays(plane: Plane, rays, labels=None) -> list[str]:
+def _rays(plane: Plane, rays, labels=None, placer: Labels | None = None) -> list[str]:
+    placer = placer or Labels()
     out = []
     for i, r in enumerate(rays):
         q = _qv(r)
@@ -207,10 +266,8 @@ def _rays(plane: Plane, rays, labels=None) -> list[str]:
         end = plane.to_edge(q)
         out.append(_line(plane, (0, 0), end, "ray"))
         x, y = plane.xy(end)
-        x = min(max(x, 4), PANEL - 60)
-        y = min(max(y, 12), PANEL - 4)
         text = labels[i] if labels else _vec_text(r)
-        out.append(f'<text class="ray-label" x="{_f(x)}" y="{_f(y)}">{escape(text)}</text>')
+        out.append(placer.place(x, y, text))
     return out
 
 
@@ -222,8 +279,15 @@ def _cone_panel_2d(title: str, subtitle: str, radius: int, rays, lineality, norm
     poly = _region(plane, normals, equations)
     if len(poly) >= 3:
         panel.body.append(_polygon(plane, poly, "region"))
-    both = list(rays) + [l for l in lineality] + [[-Fraction(x) for x in l] for l in lineality]
-    panel.body += _rays(plane, both)
+    if lineality:
+        # the boundary of a cone with a line is made of lines of the lineality space; the
+        # generators of the pointed part (a representative modulo the lineality) are no edges,
+        # so they are drawn as marked points only
+        both = [l for l in lineality] + [[-Fraction(x) for x in l] for l in lineality]
+        panel.body += _rays(plane, both)
+        panel.body += _points(plane, rays, "ray-generator", 3.5)
+    else:
+        panel.body += _rays(plane, rays)
     panel.body += _points(plane, points, "lattice-point", 2.5)
     panel.body += _points(plane, basis, "hilbert-basis", 5.5)
     return panel
@@ -312,13 +376,12 @@ def _section_panel(title: str, subtitle: str, vertices, labels, w, extra=(), pol
             panel.body.append(f'<polygon class="section" style="fill:{fill}" points="{pts}"/>')
         elif len(g) == 2:
             panel.body.append(f'<polyline class="section" style="fill:none" points="{pts}"/>')
+    placer = Labels()
     for i, v in enumerate(vertices):
         x, y = at(i)
         panel.body.append(f'<circle class="ray-generator" cx="{_f(x)}" cy="{_f(y)}" r="3.5" '
                           f'data-point="{_exact(v)}"/>')
-        tx = min(max(x + 5, 2), PANEL - 70)
-        ty = min(max(y - 5, 12), PANEL - 4)
-        panel.body.append(f'<text class="ray-label" x="{_f(tx)}" y="{_f(ty)}">{escape(labels[i])}</text>')
+        panel.body.append(placer.place(x, y, labels[i]))
     for j, p in enumerate(extra):
         x, y = at(len(vertices) + j)
         panel.body.append(f'<circle class="hilbert-basis" cx="{_f(x)}" cy="{_f(y)}" r="5" '
@@ -359,11 +422,130 @@ def _wrap(text: str, width: int) -> list[str]:
 # objects
 
 
-def cone_panels(name: str, o: dict) -> list[Panel]:
+def section_functional(rays, facets):
+    """The plane ``<w, x> = level`` of the picture of a pointed 3-dimensional cone: when one
+    functional takes the same value on every ray generator (a Q-Gorenstein cone), ``w`` is
+    it, made primitive, and ``level`` that value, so the corners lie in the section and it is
+    the polytope conv(rays); otherwise ``w`` is the primitive sum of the facet normals
+    (positive on σ ∖ 0) and ``level`` 1.
+
+    >>> section_functional([(1, 0, 0), (0, 1, 0), (1, 1, 4)], [(0, 0, 1), (0, 4, -1), (4, 0, -1)])
+    ((4, 4, -1), 4)
+    >>> from conelang.geometry.cone import cone_from_rays
+    >>> c = cone_from_rays([(1, 0, 1), (0, 1, 1), (-1, 0, 1), (0, -1, 2)], 3)
+    >>> section_functional(c.rays, c.facets)      # no common value: the sum of the normals
+    ((0, 1, 2), 1)
+    """
+    from ..geometry import linalg
+    ints = [_integral(r) for r in rays]
+    m = linalg.solve_rational(ints, [1] * len(ints), 3) if ints else None
+    if m is not None:
+        w = _integral(m)
+        return w, _dot(w, ints[0])
+    return _integral(_sum(facets, 3)), 1
+
+
+def _integral(v) -> tuple[int, ...]:
+    """The primitive integer vector on the ray of a rational vector."""
+    q = _qv(v)
+    den = 1
+    for x in q:
+        den = den * x.denominator // _gcd(den, x.denominator)
+    ints = [int(x * den) for x in q]
+    g = 0
+    for x in ints:
+        g = _gcd(g, abs(x))
+    return tuple(x // g for x in ints) if g else tuple(ints)
+
+
+def _mat_vec(v, rows):
+    """v · rows (v a row vector)."""
+    return tuple(sum(_q(a) * _q(r[j]) for a, r in zip(v, rows)) for j in range(len(rows[0])))
+
+
+def _inverse2(B):
+    (a, b), (c, d) = [_qv(r) for r in B]
+    det = a * d - b * c
+    return ((d / det, -b / det), (-c / det, a / det))
+
+
+def _lattice_points_in(radius: int, normals, equations, basis) -> list[tuple[tuple, tuple]]:
+    """(lattice coordinates, user coordinates) of the points of Z^2 in ``[-radius, radius]^2``
+    with ``<n, x> >= 0`` and ``<e, x> = 0`` (normals in dual lattice coordinates)."""
+    out = []
+    for a in range(-radius, radius + 1):
+        for b in range(-radius, radius + 1):
+            x = (a, b)
+            if all(_dot(u, x) >= 0 for u in normals) and all(_dot(e, x) == 0 for e in equations):
+                out.append((x, _mat_vec(x, basis)))
+    return out
+
+
+def _marks(plane: Plane, pairs, cls: str, r: float) -> list[str]:
+    """Circles at lattice coordinates, labelled (``data-point``) with user coordinates."""
+    out = []
+    for pos, user in pairs:
+        if max(abs(_q(c)) for c in pos) > plane.R:
+            continue
+        x, y = plane.xy(_qv(pos))
+        out.append(f'<circle class="{cls}" cx="{_f(x)}" cy="{_f(y)}" r="{r}" data-point="{_exact(user)}"/>')
+    return out
+
+
+def _overlattice_panel(title, subtitle, rays, lineality, normals, equations, basis, ringed, labels):
+    """A plane cone of an overlattice drawn in the lattice's own coordinates (its basis
+    ``basis`` in user coordinates): its points are the integer grid; the marks keep their user
+    coordinates in ``data-point`` and the ray labels are written in user coordinates."""
+    inv = _inverse2(basis)
+    to_c = lambda v: _mat_vec(v, inv)                      # noqa: E731  user -> coordinates
+    to_dc = lambda u: _mat_vec(u, list(zip(*basis)))       # noqa: E731  dual user -> dual coords
+    rays_c = [to_c(r) for r in rays]
+    lin_c = [to_c(l) for l in lineality]
+    normals_c = [to_dc(u) for u in normals]
+    eqs_c = [to_dc(e) for e in equations]
+    ringed_c = [(to_c(h), h) for h in ringed]
+    radius = _window(rays_c + [c for c, _ in ringed_c])
+    panel = Panel(title, subtitle)
+    plane = Plane(radius)
+    panel.body += _axes(plane)
+    poly = _region(plane, normals_c, eqs_c)
+    if len(poly) >= 3:
+        panel.body.append(_polygon(plane, poly, "region"))
+    placer = Labels()
+    edges = (lin_c + [tuple(-x for x in l) for l in lin_c]) if lin_c else rays_c
+    edge_labels = ([_vec_text(l) for l in lineality] + [_vec_text([-_q(x) for x in l]) for l in lineality]
+                   if lin_c else labels)
+    panel.body += _rays(plane, edges, edge_labels, placer)
+    if lin_c:
+        panel.body += _marks(plane, list(zip(rays_c, rays)), "ray-generator", 3.5)
+    panel.body += _marks(plane, _lattice_points_in(int(radius), normals_c, eqs_c, basis), "lattice-point", 2.5)
+    panel.body += _marks(plane, ringed_c, "hilbert-basis", 5.5)
+    return panel
+
+
+def _overlattice_panels(name: str, o: dict, basis) -> list[Panel]:
+    var = o.get("variety") or {}
+    dual_basis_vectors = [tuple(r) for r in _inverse2(basis)]            # columns: the dual basis
+    dual_basis = [tuple(dual_basis_vectors[j][i] for j in range(2)) for i in range(2)]
+    lin = o["lineality"]
+    p1 = _overlattice_panel(f"cone {name} in {o['lattice']}",
+                            "in the coordinates of the lattice basis; ringed: Hilbert basis",
+                            o["rays"], lin, o["facets"], o["linear_equations"], basis,
+                            o.get("hilbert_basis", []), [_vec_text(r) for r in o["rays"]])
+    dual_normals = list(o["rays"]) + list(lin) + [[-_q(x) for x in l] for l in lin]
+    p2 = _overlattice_panel(f"dual of {name}", "in the dual basis; ringed: the coordinates z_i of U_σ",
+                            o["facets"], o["linear_equations"], dual_normals, [], dual_basis,
+                            var.get("generators", []), [_vec_text(u) for u in o["facets"]])
+    return [p1, p2]
+
+
+def cone_panels(name: str, o: dict, basis=None) -> list[Panel]:
     n = o["ambient_dim"]
     lattice = o["lattice"]
     var = o.get("variety") or {}
     dual_basis = var.get("generators", [])
+    if n == 2 and basis:
+        return _overlattice_panels(name, o, basis)
     if n == 2:
         radius = o.get("lattice_window") or _window(o["rays"] + o.get("hilbert_basis", []) + o["facets"])
         p1 = _cone_panel_2d(f"cone {name} in {lattice}", "σ, its lattice points and Hilbert basis (ringed)",
@@ -379,23 +561,51 @@ def cone_panels(name: str, o: dict) -> list[Panel]:
         if not o.get("pointed") or not o["rays"]:
             return [_note_panel(f"cone {name} in {lattice}",
                                 "this cone is not pointed (or is zero): it has no bounded cross-section")]
-        w = _sum(o["facets"], 3) if o["facets"] else _qv(o["rays"][0])
         if not o["facets"]:
             return [_note_panel(f"cone {name} in {lattice}", "a single ray: its cross-section is a point")]
-        hb = [h for h in o.get("hilbert_basis", []) if h not in o["rays"]]
-        p1 = _section_panel(f"cone {name} in {lattice}", f"section by <{_vec_text(w)}, x> = 1; ringed: Hilbert basis",
+        w, level = section_functional(o["rays"], o["facets"])
+        hb = list(o.get("hilbert_basis", []))          # the corners too: they are in it
+        p1 = _section_panel(f"cone {name} in {lattice}",
+                            f"section by <{_vec_text(w)}, x> = {level}; ringed: Hilbert basis",
                             o["rays"], [_vec_text(r) for r in o["rays"]], w, hb)
         panels = [p1]
         if o.get("full") and o["facets"]:
-            w2 = _sum(o["rays"], 3)
-            dhb = [g for g in dual_basis if g not in o["facets"]]
-            panels.append(_section_panel(f"dual of {name}", f"section by <x, {_vec_text(w2)}> = 1; ringed: z_i of U_σ",
-                                         o["facets"], [_vec_text(u) for u in o["facets"]], w2, dhb))
+            w2, level2 = section_functional(o["facets"], o["rays"])
+            panels.append(_section_panel(f"dual of {name}",
+                                         f"section by <x, {_vec_text(w2)}> = {level2}; ringed: z_i of U_σ",
+                                         o["facets"], [_vec_text(u) for u in o["facets"]], w2, list(dual_basis)))
         return panels
     return []
 
 
-def fan_panels(name: str, o: dict) -> list[Panel]:
+def _support_points(rays, cones, radius: int) -> list[tuple[int, int]]:
+    """The points of Z^2 in ``[-radius, radius]^2`` that lie in some cone of a plane fan
+    (cones as 0-based ray indices; exact, by the signs of determinants).
+
+    >>> len(_support_points([(1, 0), (0, 1)], [[0, 1]], 1)), _support_points([(1, 1)], [[0]], 1)
+    (4, [(0, 0), (1, 1)])
+    """
+    def det(a, b):
+        return a[0] * b[1] - a[1] * b[0]
+
+    gens = [[_qv(rays[i]) for i in c] for c in cones]
+    normals = [_plane_cone_normals(g) if len(g) >= 2 else None for g in gens]
+    out = []
+    for x in range(-radius, radius + 1):
+        for y in range(-radius, radius + 1):
+            p = (x, y)
+            for g, nm in zip(gens, normals):
+                if len(g) == 1:
+                    hit = det(g[0], p) == 0 and _dot(g[0], p) >= 0
+                else:
+                    hit = nm is not None and all(_dot(n, p) >= 0 for n in nm)
+                if hit or p == (0, 0):
+                    out.append(p)
+                    break
+    return out
+
+
+def fan_panels(name: str, o: dict, standard: bool = True) -> list[Panel]:
     rays = o["rays"]
     if not rays:
         return []
@@ -420,6 +630,8 @@ def fan_panels(name: str, o: dict) -> list[Panel]:
                     poly = _region(plane, normals, [])
                     if len(poly) >= 3:
                         panel.body.append(_polygon(plane, poly, "region", FILLS[k % len(FILLS)]))
+        if standard:
+            panel.body += _points(plane, _support_points(rays, cones, int(radius)), "lattice-point", 2)
         panel.body += _rays(plane, rays, [f"{i + 1}: {_vec_text(r)}" for i, r in enumerate(rays)])
         for i, r in enumerate(rays):
             if max(abs(Fraction(c)) for c in r) <= radius:
@@ -476,6 +688,41 @@ def _positive_functional(rays):
     return None
 
 
+def morphism_panels(name: str, o: dict, objects: dict) -> list[Panel]:
+    """A morphism whose target is a plane cone: the target cone τ shaded, and the image f(σ)
+    of the source cone (the cone of the images of its rays and of ± its lineality) shaded over
+    it with its edges drawn, so one sees where σ lands in τ.  Needs the map, source and target
+    in the document (with user coordinates); otherwise nothing is drawn."""
+    f, src, tgt = (objects.get(o.get(k)) or {} for k in ("map", "source", "target"))
+    if not (f.get("kind") == "map" and src.get("kind") == "cone" and tgt.get("kind") == "cone"):
+        return []
+    if tgt.get("ambient_dim") != 2 or o.get("compatible") is False:
+        return []
+    rows = [_qv(r) for r in f["rows"]]
+    image = lambda v: tuple(_dot(r, _qv(v)) for r in rows)      # noqa: E731
+    gens = [image(v) for v in src["rays"]]
+    gens += [image(l) for l in src["lineality"]] + [tuple(-x for x in image(l)) for l in src["lineality"]]
+    gens = [g for g in gens if any(g)]
+    radius = _window(tgt["rays"] + [list(g) for g in gens])
+    panel = Panel(f"morphism {name}: {o['map']}({o['source']}) in {o['target']}",
+                  f"shaded: {o['target']}; darker: the image of {o['source']}")
+    plane = Plane(radius)
+    panel.body += _axes(plane)
+    poly = _region(plane, tgt["facets"], tgt["linear_equations"])
+    if len(poly) >= 3:
+        panel.body.append(_polygon(plane, poly, "region"))
+    normals = _plane_cone_normals(gens) if len(gens) >= 2 else None
+    if normals is not None:
+        poly = _region(plane, normals, [])
+        if len(poly) >= 3:
+            panel.body.append(_polygon(plane, poly, "region", FILLS[1]))
+    placer = Labels()
+    panel.body += _rays(plane, gens, [f"{o['map']}{_vec_text(v)}" for v in
+                                      list(src["rays"]) + list(src["lineality"]) * 2][:len(gens)], placer)
+    panel.body += _points(plane, gens, "image-generator", 3)
+    return [panel]
+
+
 def _gcd(a: int, b: int) -> int:
     while b:
         a, b = b, a % b
@@ -490,9 +737,15 @@ def render(doc: dict) -> str:
         kind = o.get("kind")
         panels = []
         if kind == "cone":
-            panels = cone_panels(name, o)
+            lat = doc["objects"].get(o.get("lattice"), {})
+            basis = lat.get("basis") if lat.get("kind") == "lattice" and "dual_of" not in lat else None
+            panels = cone_panels(name, o, basis)
+        elif kind == "morphism":
+            panels = morphism_panels(name, o, doc["objects"])
         elif kind == "fan":
-            panels = fan_panels(name, o)
+            lat = doc["objects"].get(o.get("lattice"), {})
+            panels = fan_panels(name, o, standard=("basis" not in lat if lat.get("kind") == "lattice"
+                                                   else str(o.get("lattice", "")).startswith("Z^")))
         if panels:
             rows.append(panels)
         elif kind in ("cone", "fan"):

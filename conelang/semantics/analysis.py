@@ -28,7 +28,7 @@ from ..syntax.text import LineIndex
 from . import values as V
 from .diagnostics import Diagnostic, EvalError, Fix, Related, Sink, shifted, sort_key
 from .engine import Engine
-from .forms import fan_cone_label, fmt_number, fmt_vec, violation_message  # noqa: F401 (fmt_* also used by facts)
+from .forms import budget_advice, fan_cone_label, fmt_number, fmt_vec, violation_message  # noqa: F401 (fmt_* also used by facts)
 from .properties import check_expect
 
 # Evaluations remembered across analyses (an edited file is analysed again from scratch): for a
@@ -71,6 +71,9 @@ class Analysis:
         self.sink = Sink()
         for err in self.module.errors:
             self.sink.error(err.span, "syntax", err.message)
+        # names that statements which failed to parse were going to define: their uses are not
+        # reported again (the syntax error is the one mistake)
+        self.unparsed = {err.defines for err in self.module.errors if err.defines}
         self.defs: dict[str, A.Definition] = {}
         self.expects: list[A.Expect] = []
         self.refs: list[Ref] = []
@@ -109,10 +112,14 @@ class Analysis:
             self._used.setdefault(owner, []).append(name.text)
         target = name.text if name.text in self.defs else None
         self.refs.append(Ref(name, expected, target, owner))
+        if target is None and name.text in self.unparsed:
+            return
         if target is None:
             close = difflib.get_close_matches(name.text, [n for n in self.defs
                                                           if expected is None or self.kind_of(n) == expected], n=1)
             hint = f"; did you mean '{close[0]}'?" if close else ""
+            if not close and expected == "lattice":
+                hint = self._dual_hint(name.text)
             what = f" {expected}" if expected else ""
             self.sink.error(name.span, "unknown-name", f"unknown{what} '{name.text}'{hint}")
             return
@@ -124,6 +131,17 @@ class Analysis:
             return
         if owner is not None:
             self.deps.setdefault(owner, set()).add(target)
+
+    def _dual_hint(self, text: str) -> str:
+        """For an unknown lattice such as ``M``: how the dual of a defined lattice is written
+        (``M`` → ``dual N``, ``M1`` → ``dual N1``, or the one lattice of the file)."""
+        lattices = [n for n, st in self.defs.items() if st.kind == "lattice"]
+        partner = "N" + text[1:] if text[:1] == "M" else None
+        if partner not in lattices:
+            partner = lattices[0] if len(lattices) == 1 else None
+        if partner is None:
+            return ""
+        return f"; the dual lattice of {partner} is written 'dual {partner}'"
 
     def _lattice_uses(self, expr, owner) -> None:
         if isinstance(expr, A.LatticeName):
@@ -246,7 +264,7 @@ class Analysis:
             if isinstance(exc, Cancelled):
                 self._evaluating.discard(name)
                 raise
-            self.sink.error(st.name.span, "budget", f"{exc}; raise it with --budget")
+            self.sink.error(st.name.span, "budget", f"{exc}; {budget_advice(exc)}")
             val = None
         except RecursionError:
             self.sink.error(st.name.span, "too-deep", f"the definition of '{name}' is nested too deeply")

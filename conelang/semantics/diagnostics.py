@@ -11,10 +11,8 @@ Span = tuple[int, int]
 
 ERROR, WARNING, INFORMATION, HINT = "error", "warning", "information", "hint"
 
-
 class EvalError(Exception):
     """Evaluation of a definition failed; the diagnostic has already been reported."""
-
 
 @dataclass(frozen=True)
 class Related:
@@ -22,14 +20,12 @@ class Related:
     span: Span
     message: str
 
-
 @dataclass(frozen=True)
 class Fix:
     """A text edit that repairs the problem: replace ``span`` by ``new_text``."""
     title: str
     span: Span
     new_text: str
-
 
 @dataclass(frozen=True)
 class Diagnostic:
@@ -44,7 +40,6 @@ class Diagnostic:
     @property
     def is_error(self) -> bool:
         return self.severity == ERROR
-
 
 class Sink:
     """Collects diagnostics, dropping exact repeats."""
@@ -88,10 +83,8 @@ class Sink:
     def info(self, span: Span, code: str, message: str, **kw) -> None:
         self.add(span, INFORMATION, code, message, **kw)
 
-
 def sort_key(d: Diagnostic):
     return (d.span[0], d.span[1], d.code)
-
 
 def shifted(d: Diagnostic, delta: int) -> Diagnostic:
     """``d`` with its span, related spans and fix spans moved by ``delta`` characters.
@@ -104,3 +97,4 @@ def shifted(d: Diagnostic, delta: int) -> Diagnostic:
     return Diagnostic(mv(d.span), d.severity, d.code, d.message,
                       tuple(Related(mv(r.span), r.message) for r in d.related), d.unnecessary,
                       tuple(Fix(f.title, mv(f.span), f.new_text) for f in d.fixes))
+

@@ -89,22 +89,23 @@ def violation_message(v) -> str | None:
 
 
 def budget_advice(exc) -> str:
-    """Which ``--budget`` to pass after a :class:`~conelang.geometry.budget.BudgetExceeded`: the
-    estimate when the refusal came from one (rounded up), else ten times the limit; an estimate
-    beyond 10^12 steps (days of work) is said to be out of reach instead.
+    """What to pass to ``--budget`` after a :class:`~conelang.geometry.budget.BudgetExceeded`:
+    the estimate rounded up to one significant digit when the computation was refused up front,
+    ten times the limit when it ran out on the way; the one wording of every budget message.
+    An estimate beyond 10^12 steps (weeks of work) is said to be out of reach instead.
 
     >>> from conelang.geometry.budget import BudgetExceeded
-    >>> budget_advice(BudgetExceeded("Hilbert basis", 1000, needed=123456))
-    'pass --budget 200000 or more'
-    >>> budget_advice(BudgetExceeded("toric ideal", 1000))
-    'pass a larger --budget (for example --budget 10000)'
+    >>> budget_advice(BudgetExceeded("Hilbert basis", 1000, needed=23_456))
+    'raise it with --budget 30000 (or --budget none)'
+    >>> budget_advice(BudgetExceeded("Hilbert basis", 20_000_000))
+    'raise it with --budget 200000000 or more (or --budget none)'
     >>> budget_advice(BudgetExceeded("Hilbert basis", 1000, needed=10 ** 16))
     'out of reach for any --budget (about 10^16 steps)'
     """
     needed = getattr(exc, "needed", None)
-    if needed is None:
-        return f"pass a larger --budget (for example --budget {10 * exc.limit})"
-    if needed > 10 ** 12:
+    if needed and needed > 10 ** 12:
         return f"out of reach for any --budget (about 10^{len(str(needed)) - 1} steps)"
-    lead = 10 ** (len(str(needed)) - 1)
-    return f"pass --budget {-(-needed // lead) * lead} or more"
+    if needed:
+        unit = 10 ** (len(str(needed)) - 1)
+        return f"raise it with --budget {-(-needed // unit) * unit} (or --budget none)"
+    return f"raise it with --budget {10 * exc.limit} or more (or --budget none)"

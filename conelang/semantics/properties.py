@@ -23,9 +23,10 @@ from ..geometry import linalg
 from ..geometry import maps as gmaps
 from ..geometry.budget import BudgetExceeded, Cancelled
 from ..syntax import ast as A
+from ..syntax.text import closest_word
 from .diagnostics import EvalError, Related
 from .engine import NotAvailable, NotPointed
-from .forms import fmt_vec, group_string, show_result, violation_message  # noqa: F401 (also used by facts)
+from .forms import budget_advice, fmt_vec, group_string, show_result, violation_message  # noqa: F401 (also used by facts)
 
 BOOL, INT, GROUP, OPT_INT, INTS = "yes/no", "integer", "abelian group", "integer or none", "list of integers"
 
@@ -221,7 +222,10 @@ def _fan_rays(a, v):
 
 @prop("fan", "cones", INT, "number of maximal cones")
 def _fan_cones(a, v):
-    return len(_fan_invariants(a, v).maximal_cones)
+    check = a.engine.fan_check(v)               # counting needs no invariants (Picard group)
+    if not check.valid:
+        _fan_invariants(a, v)                   # raises NotAvailable, saying why
+    return len(check.maximal)
 
 
 @prop("fan", "fixed_points", INT, "number of torus-fixed points (full-dimensional cones)")
@@ -307,8 +311,11 @@ def check_expect(analysis, ex: A.Expect) -> None:
     pname = ex.prop.text
     p = REGISTRY.get((kind, pname))
     if p is None:
-        known = ", ".join(q.name for q in properties_for(kind)) or "none yet"
-        sink.error(ex.prop.span, "unknown-property", f"'{pname}' is not a property of a {kind}; known: {known}")
+        names = [q.name for q in properties_for(kind)]
+        guess = closest_word(pname, names)
+        hint = f"; did you mean '{guess}'?" if guess else ""
+        sink.error(ex.prop.span, "unknown-property",
+                   f"'{pname}' is not a property of a {kind}{hint} (known: {', '.join(names) or 'none yet'})")
         return
     if ex.value is None and p.type != BOOL:
         sink.error(ex.prop.span, "expect-needs-value",
@@ -331,7 +338,7 @@ def check_expect(analysis, ex: A.Expect) -> None:
                    related=(Related(analysis.defs[subject].span, f"'{subject}' is defined here"),))
         return
     except BudgetExceeded as exc:
-        sink.error(ex.span, "budget", f"cannot check '{pname}' of '{subject}': {exc}; raise it with --budget")
+        sink.error(ex.span, "budget", f"cannot check '{pname}' of '{subject}': {exc}; {budget_advice(exc)}")
         return
     except NotAvailable as exc:
         sink.error(ex.span, "not-computed-yet", f"cannot check '{pname}' of '{subject}': {exc}")

@@ -254,10 +254,12 @@ Statement = Union[Definition, Expect]
 
 @dataclass(frozen=True)
 class SyntaxError_:
-    """A statement that did not parse: ``message`` says what was expected."""
+    """A statement that did not parse: ``message`` says what was expected; ``defines`` is the
+    name the statement was going to define (None when unknown or for an expectation)."""
     message: str
     span: Span
     statement_span: Span
+    defines: str | None = None
 
 
 @dataclass

@@ -20,12 +20,22 @@ from lark import Lark, Token, Tree
 from lark.exceptions import UnexpectedCharacters, UnexpectedInput, UnexpectedToken
 
 from . import ast as A
+from .text import closest_word
 
 STATEMENT_KEYWORDS = ("lattice", "cone", "map", "morphism", "characters", "fan", "expect")
 KEYWORDS = STATEMENT_KEYWORDS + ("dual", "face", "at", "in", "of", "not", "rays", "halfspaces",
                                  "equations", "images", "rows", "cones", "resolve", "crepant", "after")
 
-_SCAN = re.compile(r'#[^\n]*|"[^"\n]*"?|[A-Za-z_][A-Za-z0-9_]*')
+_SCAN = re.compile(r'#[^\n]*|"[^"\n]*"?|//[^\n]*|[A-Za-z_][A-Za-z0-9_]*')
+# a word that starts a line and is followed by a name, as a statement keyword is: when it is a
+# misspelled statement keyword (``cnoe a in N``), or when the name is followed by what follows
+# the name of a definition (``in``, ``=``, ``:``, ``of``), the file is split there too, so the
+# mistake costs its own statement only and not the one before (strings and comments never
+# span lines)
+_LINE_START_WORD = re.compile(r'^[ \t]*([A-Za-z_][A-Za-z0-9_]*)(?=[ \t]+[A-Za-z_][A-Za-z0-9_]*'
+                              r'([ \t]+(?:in|of)\b|[ \t]*[=:](?!=))?)', re.M)
+_FIRST_TWO_WORDS = re.compile(r'([A-Za-z_][A-Za-z0-9_]*)\s+([A-Za-z_][A-Za-z0-9_]*)')
+_YES_NO = {"yes", "no", "true", "false", "True", "False"}
 _READABLE = {
     "NAME": "a name", "INT": "a whole number", "STRING": "a quoted string", "SIGN": "a sign",
     "$END": "end of statement", "ARROW": "'->'", "INVERSE": "'^-1'", "EQEQ": "'=='",
@@ -84,19 +94,38 @@ def split_statements(text: str) -> list[tuple[int, int]]:
     A leading piece that does not start with a keyword is returned too (it is an error unless
     it holds only blanks and comments).
 
+    A word that starts a line, is followed by a name and is one typo away from a statement
+    keyword starts a piece too (see ``_LINE_START_WORD``).
+
     >>> split_statements("cone a = b  # cone\\nexpect a pointed")
     [(0, 19), (19, 35)]
+    >>> split_statements("lattice N = Z^2\\ncnoe a in N { rays (1,0) }")
+    [(0, 16), (16, 42)]
     """
-    starts = []
+    return _split(text)[0]
+
+
+def _split(text: str) -> tuple[list[tuple[int, int]], list[tuple[int, int]]]:
+    """The pieces of ``split_statements`` and the spans of ``//`` comments (an error: comments
+    start with ``#``)."""
+    starts, slashes = [], []
     for m in _SCAN.finditer(text):
-        if m.group(0) in STATEMENT_KEYWORDS:
+        word = m.group(0)
+        if word in STATEMENT_KEYWORDS:
             starts.append(m.start())
+        elif word.startswith("//"):
+            slashes.append(m.span())
+    typos = [m.start(1) for m in _LINE_START_WORD.finditer(text)
+             if m.group(1) not in KEYWORDS
+             and (m.group(2) is not None or closest_word(m.group(1), STATEMENT_KEYWORDS))]
+    if typos:
+        starts = sorted(set(starts).union(typos))
     pieces = []
     if not starts or text[:starts[0]].strip() and _has_code(text[:starts[0]]):
         pieces.append((0, starts[0] if starts else len(text)))
     for i, s in enumerate(starts):
         pieces.append((s, starts[i + 1] if i + 1 < len(starts) else len(text)))
-    return [p for p in pieces if _has_code(text[p[0]:p[1]])]
+    return [p for p in pieces if _has_code(text[p[0]:p[1]])], slashes
 
 
 def _has_code(piece: str) -> bool:
@@ -104,10 +133,27 @@ def _has_code(piece: str) -> bool:
 
 
 def parse(text: str) -> A.Module:
-    """Parse a whole file; statements that fail to parse become :class:`ast.SyntaxError_`."""
+    """Parse a whole file; statements that fail to parse become :class:`ast.SyntaxError_`.
+
+    A ``//`` comment is reported and then read as a comment, so the statement around it still
+    parses; a statement that fails records the name it was going to define (``defines``), so
+    that its uses are not reported as unknown names too.
+
+    >>> m = parse("lattice N = Z^2  // the plane\\ncnoe c in N { rays (1,0) }")
+    >>> [type(s).__name__ for s in m.statements], [(e.message, e.defines) for e in m.errors]
+    (['LatticeStmt'], [("comments start with '#', not '//'", None), ("'cnoe' does not start a statement; did you mean 'cone'?", 'c')])
+    """
     module = A.Module()
-    for start, end in split_statements(text):
+    pieces, slashes = _split(text)
+    for lo, hi in slashes:
+        module.errors.append(A.SyntaxError_("comments start with '#', not '//'", (lo, hi), (lo, hi)))
+        text = text[:lo] + "#" * (hi - lo) + text[hi:]
+    for start, end in pieces:
         piece = text[start:end]
+        typo = _not_a_statement(piece, start)
+        if typo is not None:
+            module.errors.append(typo)
+            continue
         hit = _BUILT.get(piece)
         if hit is not None:              # the same statement: reuse its nodes, shifted if it moved
             built, at = hit
@@ -123,7 +169,8 @@ def parse(text: str) -> A.Module:
             module.errors.append(_syntax_error(exc, piece, start))
             continue
         except RecursionError:
-            module.errors.append(A.SyntaxError_("statement is nested too deeply", (start, end), (start, end)))
+            module.errors.append(A.SyntaxError_("statement is nested too deeply", (start, end), (start, end),
+                                                _defined_name(piece)))
             continue
         try:
             built = _Builder(start).statement(tree.children[0])
@@ -132,10 +179,44 @@ def parse(text: str) -> A.Module:
             if len(_BUILT) > _BUILT_MAX:
                 _BUILT.popitem(last=False)
         except _BuildError as exc:
-            module.errors.append(A.SyntaxError_(exc.message, exc.span, (start, end)))
+            module.errors.append(A.SyntaxError_(exc.message, exc.span, (start, end), _defined_name(piece)))
         except RecursionError:
-            module.errors.append(A.SyntaxError_("statement is nested too deeply", (start, end), (start, end)))
+            module.errors.append(A.SyntaxError_("statement is nested too deeply", (start, end), (start, end),
+                                                _defined_name(piece)))
     return module
+
+
+def _defined_name(piece: str, keyword: str | None = None) -> str | None:
+    """The name a definition ``piece`` (``cone c …``) defines, read without parsing; None for an
+    expectation or when the second word is not a name.  ``keyword`` replaces a misspelled one.
+
+    >>> _defined_name("cone c in N {"), _defined_name("expect c smooth"), _defined_name("fan = x")
+    ('c', None, None)
+    """
+    m = _FIRST_TWO_WORDS.match(piece.lstrip())
+    if m is None or m.group(2) in KEYWORDS:
+        return None
+    kw = keyword or m.group(1)
+    return m.group(2) if kw in STATEMENT_KEYWORDS and kw != "expect" else None
+
+
+def _not_a_statement(piece: str, base: int) -> A.SyntaxError_ | None:
+    """The error for a piece that starts with a word that is not a statement keyword."""
+    lead = len(piece) - len(piece.lstrip())
+    m = re.match(r"[A-Za-z_][A-Za-z0-9_]*", piece[lead:])
+    if m is None or m.group(0) in STATEMENT_KEYWORDS:
+        return None
+    word, at = m.group(0), base + lead
+    guess = closest_word(word, STATEMENT_KEYWORDS)
+    if guess is not None:
+        message = f"'{word}' does not start a statement; did you mean '{guess}'?"
+    else:
+        message = f"'{word}' does not start a statement: a statement starts with " + \
+            _join_or([f"'{k}'" for k in STATEMENT_KEYWORDS])
+    shaped = re.match(r"[A-Za-z_]\w*\s+([A-Za-z_]\w*)(\s+(in|of)\b|\s*[=:](?!=))", piece[lead:])
+    defines = _defined_name(piece[lead:], guess) if guess else shaped and shaped.group(1)
+    return A.SyntaxError_(message, (at, at + len(word)), (base, _trimmed_end(piece, base)),
+                          defines if defines not in KEYWORDS else None)
 
 
 def shift_node(node, delta: int):
@@ -199,13 +280,36 @@ def _syntax_error(exc: UnexpectedInput, piece: str, base: int) -> A.SyntaxError_
         return A.SyntaxError_(f"unexpected character {ch!r}", (pos, pos + 1), stmt_span)
     expected = sorted({_describe_terminal(t) for t in getattr(exc, "expected", ()) or ()})
     want = ("; expected " + _join_or(expected)) if expected else ""
+    defines = _defined_name(piece)
     if isinstance(exc, UnexpectedToken) and exc.token.type != "$END":
         tok = exc.token
         pos = base + tok.start_pos
-        return A.SyntaxError_(f"unexpected {tok.value!r}{want}", (pos, pos + max(1, len(tok.value))), stmt_span)
+        hint = _token_hint(tok, exc, piece)
+        return A.SyntaxError_(f"unexpected {tok.value!r}{hint or want}", (pos, pos + max(1, len(tok.value))),
+                              stmt_span, defines)
     end = stmt_span[1]
     keyword = piece.split(None, 1)[0] if piece.split() else "statement"
-    return A.SyntaxError_(f"the {keyword} statement ends too early{want}", (max(base, end - 1), end), stmt_span)
+    return A.SyntaxError_(f"the {keyword} statement ends too early{want}", (max(base, end - 1), end),
+                          stmt_span, defines)
+
+
+def _token_hint(tok: Token, exc: UnexpectedToken, piece: str) -> str:
+    """A did-you-mean for a misspelled keyword (``rasy``), or how yes/no properties are
+    written (``expect c smooth = yes``); empty when there is none."""
+    words = []
+    for t in getattr(exc, "expected", ()) or ():
+        d = _describe_terminal(t)
+        if d.startswith("'") and d[1:2].isalpha():
+            words.append(d[1:-1])
+    guess = closest_word(str(tok.value), sorted(words)) if tok.type == "NAME" else None
+    if guess is not None:
+        return f"; did you mean '{guess}'?"
+    m = re.match(r"\s*expect\s+(\w+)\s+(\w+)\s*=", piece)
+    if m is not None and str(tok.value) in _YES_NO:
+        subject, prop = m.groups()
+        return (f"; a yes/no property is written 'expect {subject} {prop}' "
+                f"or 'expect {subject} not {prop}'")
+    return ""
 
 
 def _join_or(items: list[str]) -> str:

@@ -76,3 +76,40 @@ class LineIndex:
     @property
     def line_count(self) -> int:
         return len(self.starts)
+
+
+def edit_distance(a: str, b: str) -> int:
+    """Edits (insert, delete, substitute, swap two neighbours) that turn ``a`` into ``b``:
+    the optimal string alignment distance (Damerau's typing errors).
+
+    >>> edit_distance("cnoe", "cone"), edit_distance("rasy", "rays"), edit_distance("map", "fan")
+    (1, 1, 2)
+    """
+    prev2, prev = None, list(range(len(b) + 1))
+    for i, ca in enumerate(a, 1):
+        cur = [i] + [0] * len(b)
+        for j, cb in enumerate(b, 1):
+            cur[j] = min(prev[j] + 1, cur[j - 1] + 1, prev[j - 1] + (ca != cb))
+            if i > 1 and j > 1 and ca == b[j - 2] and a[i - 2] == cb:
+                cur[j] = min(cur[j], prev2[j - 2] + 1)
+        prev2, prev = prev, cur
+    return prev[-1]
+
+
+def closest_word(word: str, candidates) -> str | None:
+    """The candidate a typo ``word`` most likely meant: within one edit for words of up to four
+    letters, two edits for longer ones (ties: the first candidate); None when nothing is close.
+
+    >>> closest_word("gorenstien", ["gorenstein", "generators"]), closest_word("x", ["cone"])
+    ('gorenstein', None)
+    >>> closest_word("halfspace", ["rays", "halfspaces"])
+    'halfspaces'
+    """
+    best, best_d = None, None
+    for c in candidates:
+        if c == word:
+            return c
+        d = edit_distance(word.lower(), c)
+        if d <= (1 if min(len(word), len(c)) <= 4 else 2) and (best_d is None or d < best_d):
+            best, best_d = c, d
+    return best
