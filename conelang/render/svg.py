@@ -493,6 +493,9 @@ def render(doc: dict) -> str:
             panels = cone_panels(name, o)
         elif kind == "fan":
             panels = fan_panels(name, o)
+        elif kind == "polytope":
+            from .polytope import svg_panels
+            panels = svg_panels(name, o, Panel, PANEL, MARGIN, _f)
         if panels:
             rows.append(panels)
         elif kind in ("cone", "fan"):
