@@ -105,17 +105,19 @@ def _by_halfspaces(a, st, space: V.Space, sec: A.PolySection) -> V.PolytopeValue
         a._fail(sec.span, "unbounded-polytope", "no halfspaces: they cut out the whole space, which is unbounded")
     res = a.engine.cached("polyhedron_from_halfspaces", gpoly.polyhedron_from_halfspaces, tuple(rows), d)
     if res.empty:
-        a._fail(sec.span, "empty-polytope", f"the halfspaces of '{st.name.text}' have no common point: it is empty")
+        a._fail(sec.keyword.span, "empty-polytope", f"the halfspaces of '{st.name.text}' have no common point: it is empty")
     if res.direction is not None:
-        a._fail(sec.span, "unbounded-polytope",
+        a._fail(sec.keyword.span, "unbounded-polytope",
                 f"the halfspaces of '{st.name.text}' cut out an unbounded set: it contains every point "
                 f"x + t·{fmt_vec(space.from_coords(res.direction))} (t >= 0) of its points x")
     for v in res.vertices:
         if any(x.denominator != 1 for x in v):
             user = space.from_coords(v) if space.is_standard else _rational_user(space, v)
-            a._fail(sec.span, "not-lattice-polytope",
+            tight = [f"{h.normal.source()} >= {_num(h.bound.value)}" for (u, c), h in zip(rows, sec.halfspaces)
+                     if sum(Fraction(x) * y for x, y in zip(v, u)) + c == 0]
+            a._fail(sec.keyword.span, "not-lattice-polytope",
                     f"the halfspaces of '{st.name.text}' cut out a polytope with the vertex {fmt_vec(user)}, "
-                    f"which is not in {space.label}: it is not a lattice polytope")
+                    f"which is not in {space.label} (where {' and '.join(tight)} meet): it is not a lattice polytope")
     for i in res.redundant:
         h = sec.halfspaces[i]
         src = f"{h.normal.source()} >= {_num(h.bound.value)}"
