@@ -299,6 +299,10 @@ def half_open_parallelepiped(gens: Sequence[Vec], excluded: Sequence[bool],
     >>> sorted(half_open_parallelepiped([(1, 0), (1, 2)], [False, True]))
     [(1, 1), (1, 2)]
     """
+    k = len(gens)
+    volume = abs(linalg.det(gens))
+    # refuse up front: the enumeration would hold |det| points
+    ensure(budget).check(volume * 2 * k * k, "lattice point count", f"a simplex of normalized volume {volume}")
     normals = _opposite_normals(gens)
     drop = [i for i, e in enumerate(excluded) if e]
     out = []
@@ -428,6 +432,8 @@ def _series_numerator(c: Cone, w: Sequence[int], budget: Budget | None) -> tuple
         for e in degs:
             top = lcm(top, e)
     k = len(parts[0][1])
+    ensure(budget).check(top * top * k + top * k * len(parts), "Hilbert series",
+                         f"the ray degrees have least common multiple {top}")
     num = [0]
     for hist, degs in parts:
         term = hist
@@ -627,12 +633,19 @@ def interior_points(P: Polytope, budget: Budget | None = None) -> int:
 
 
 def normalized_volume(P: Polytope, budget: Budget | None = None) -> int:
-    """``dim! · vol(P)`` in the lattice of the affine hull, ``= h*(1)``.
+    """``dim! · vol(P)`` in the lattice of the affine hull, ``= h*(1)``: the sum of the
+    determinants of a triangulation of the cone over P (no point is enumerated).
 
     >>> normalized_volume(polytope_from_points([(0, 0), (2, 0), (0, 1)], 2))
     2
+    >>> normalized_volume(dilate(polytope_from_points([(0, 0), (1, 0), (0, 1)], 2), 10**9))
+    1000000000000000000
     """
-    return sum(h_star(P, budget))
+    model = pointed_model(P.cone)
+    if model.cone.ambient_dim <= 1:
+        return 1
+    return sum(abs(linalg.det([model.cone.rays[i] for i in simplex]))
+               for simplex in triangulate(model.cone, budget))
 
 
 def lattice_points_bruteforce(P: Polytope) -> tuple[Vec, ...]:

@@ -157,6 +157,10 @@ class Engine:
         from ..geometry import polytope
         return self.cached("polytope_lattice_data", polytope.lattice_data, P, polytope.LIST_LIMIT)
 
+    def normalized_volume(self, P):
+        from ..geometry import polytope
+        return self.cached("normalized_volume", polytope.normalized_volume, P)
+
     def f_vector(self, P):
         from ..geometry import polytope
         return self.cached("f_vector", polytope.f_vector, P)

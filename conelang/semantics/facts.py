@@ -101,7 +101,10 @@ def cone_facts(analysis, value: V.ConeValue, heavy: bool = True) -> dict:
         out["hilbert_basis"] = [_user(s, h) for h in hb]
     if c.pointed:
         out["variety"] = variety_facts(analysis, value, errors)
-    if c.pointed:
+    if c.pointed and len(c.rays) > HILBERT_SERIES_MAX_RAYS:
+        errors.append(f"Hilbert series: not computed for a cone with {len(c.rays)} rays (more than "
+                      f"{HILBERT_SERIES_MAX_RAYS}); 'expect … hilbert_numerator = …' computes it within the budget")
+    elif c.pointed:
         hs = _guard(errors, "Hilbert series", lambda: hilbert_series_facts(analysis, value))
         if hs is not None:
             out["hilbert_series"] = hs
@@ -314,6 +317,9 @@ def window_facts(value: V.ConeValue, facts: dict) -> dict:
             "dual_lattice_points": _window_points(value.space.dual(), gcone.dual(value.cone), radius)}
 
 
+HILBERT_SERIES_MAX_RAYS = 40     # larger cones: the series is left to `expect`, not shown
+
+
 def hilbert_series_facts(analysis, value: V.ConeValue) -> dict:
     """The Hilbert series of the monoid σ ∩ N: ``grading`` (dual lattice, user coordinates),
     ``numerator`` (coefficients, constant term first) over ``denominator`` (the exponents e_i of
@@ -353,6 +359,9 @@ def polytope_facts(analysis, value: V.PolytopeValue, heavy: bool = True) -> dict
     fv = _guard(errors, "f-vector", lambda: analysis.engine.f_vector(P))
     if fv is not None:
         out["f_vector"] = list(fv)
+    vol = _guard(errors, "volume", lambda: analysis.engine.normalized_volume(P))
+    if vol is not None:
+        out["volume"] = vol
     if heavy:
         data = _guard(errors, "lattice points", lambda: analysis.engine.polytope_data(P))
         if data is not None:
@@ -360,7 +369,7 @@ def polytope_facts(analysis, value: V.PolytopeValue, heavy: bool = True) -> dict
             count = (e + 1) * h[0] + (h[1] if len(h) > 1 else 0)
             inner = h[e] if len(h) > e else 0
             out.update({"lattice_points": count, "interior_points": inner, "boundary_points": count - inner,
-                        "volume": sum(h), "h_star": list(h),
+                        "h_star": list(h),
                         "ehrhart": jvec(gp.ehrhart_from_h_star(h, e))})
             if data.points is not None:
                 out["points"] = [_user(s, x) for x in data.points]

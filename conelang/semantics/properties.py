@@ -340,7 +340,7 @@ for _name, _type, _doc, _fn in (
         ("boundary_points", INT, "number of lattice points on the (relative) boundary",
          lambda a, v: _lattice_count(a, v) - _interior_count(a, v)),
         ("volume", INT, "normalized volume dim!·vol in the lattice of the affine hull (= h*(1))",
-         lambda a, v: sum(_h(a, v))),
+         lambda a, v: a.engine.normalized_volume(v.polytope)),
         ("h_star", INTS, "the h*-vector: Σ L(n) t^n = h*(t) / (1 − t)^(dim+1), written (1, 4, 1)", _h),
         ("ehrhart", NUMS, "Ehrhart polynomial L(n) = #(nP ∩ N), coefficients from the constant term, "
                           "written (1, 3/2, 1/2)", _ehrhart),

@@ -38,6 +38,8 @@ def test_lattice_points_match_box_enumeration(pts):
     assert data.points == box
     assert gp.lattice_points(P) == len(box)
     assert gp.interior_points(P) == sum(1 for x in box if gp.in_interior(P, x))
+    # the determinants of the triangulation add up to h*(1) (Stanley 1980: both are dim!·vol)
+    assert gp.normalized_volume(P) == sum(data.h_star)
 
 
 @settings(max_examples=40, deadline=None)
