@@ -162,3 +162,21 @@ def test_product_and_cone_over_in_an_overlattice():
     from conelang.semantics.facts import object_facts
     assert [0, 0, 1] in object_facts(a, "SI")["vertices"]
     assert ["1/2", "1/2", 0] in object_facts(a, "SI")["vertices"]
+
+
+def test_format_polytope_statements():
+    """The canonical layout covers the new statements (and keeps what the file says)."""
+    from conelang.syntax.format import format_text
+    from conelang.syntax.parser import parse
+    src = ("lattice N = Z^2\npolytope P in N{vertices(1,0)(0,1)(-1,-1)}\n"
+           "polytope H in N { halfspaces (1,0)>=-1,(0,1)>= -1 (-1,-1)>=-1 }\n"
+           "polytope Q=polar P+2 P*hull(P,P)\ncone C=over P\nfan F=normal P\n"
+           "cone D in N{rays(1,0)(1,2)grading(1,1)}\n")
+    out = format_text(src)
+    assert out.splitlines()[1:4] == [
+        "polytope P in N { vertices (1, 0) (0, 1) (-1, -1) }",
+        "polytope H in N { halfspaces (1, 0) >= -1 (0, 1) >= -1 (-1, -1) >= -1 }",
+        "polytope Q = polar P + 2 P * hull(P, P)"]
+    assert "cone D in N { rays (1, 0) (1, 2) grading (1, 1) }" in out
+    assert format_text(out) == out
+    assert len(parse(out).statements) == len(parse(src).statements) == 7
