@@ -67,7 +67,7 @@ class RenameError(ValueError):
 
 
 KIND_OF_KEYWORD = {"lattice": "lattice", "cone": "cone", "map": "map", "morphism": "morphism",
-                   "characters": "characters", "fan": "fan"}
+                   "characters": "characters", "fan": "fan", "polytope": "polytope"}
 
 
 # ---- hover -----------------------------------------------------------------------------------
@@ -531,7 +531,7 @@ def _summary_variety(a, c) -> dict | None:
 
 # ---- semantic tokens -------------------------------------------------------------------------
 TOKEN_TYPE_OF_KIND = {"lattice": "type", "cone": "variable", "map": "function", "morphism": "method",
-                      "characters": "enumMember", "fan": "namespace"}
+                      "characters": "enumMember", "fan": "namespace", "polytope": "variable"}
 TOKEN_TYPES = ("keyword", "type", "variable", "function", "method", "enumMember", "namespace",
                "property", "number", "string", "comment", "operator")
 TOKEN_MODIFIERS = ("declaration", "defaultLibrary")

@@ -180,3 +180,10 @@ def test_format_polytope_statements():
     assert "cone D in N { rays (1, 0) (1, 2) grading (1, 1) }" in out
     assert format_text(out) == out
     assert len(parse(out).statements) == len(parse(src).statements) == 7
+
+
+def test_semantic_tokens_know_polytopes():
+    from conelang import editor
+    a = Analysis(BASE + "fan F = normal P\n")
+    toks = {(a.text[s:e], kind) for s, e, kind, _ in editor.semantic_tokens(a)}
+    assert ("P", "variable") in toks and ("polytope", "keyword") in toks
