@@ -74,8 +74,15 @@ class Polytope:
 
     @property
     def facets(self) -> tuple[tuple[Vec, int], ...]:
-        """Pairs ``(u, c)``: the facet ``<u, x> >= -c`` (``u`` primitive, in the span)."""
+        """Pairs ``(u, c)``: the facet ``<u, x> >= -c`` (``u`` primitive, in the span); a point
+        has none (the facet of the ray over it is the empty face).
+
+        >>> polytope_from_points([(2, 3)], 2).facets
+        ()
+        """
         d = self.ambient_dim
+        if self.dim == 0:
+            return ()
         return tuple((f[:d], f[d]) for f in self.cone.facets)
 
     @property
