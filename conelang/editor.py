@@ -67,7 +67,7 @@ class RenameError(ValueError):
 
 
 KIND_OF_KEYWORD = {"lattice": "lattice", "cone": "cone", "map": "map", "morphism": "morphism",
-                   "characters": "characters", "fan": "fan"}
+                   "characters": "characters", "fan": "fan", "polytope": "polytope"}
 
 
 # ---- hover -----------------------------------------------------------------------------------
@@ -207,6 +207,8 @@ def hover_pending(a, offset: int) -> str | None:
         return f"the pullbacks and the torus map of {name}"
     if kind == "fan":
         return f"the invariants of the fan {name}"
+    if kind == "polytope":
+        return f"the lattice points, h*-vector and Ehrhart polynomial of {name}"
     return None
 
 
@@ -249,7 +251,11 @@ def _cone_expr_items(a, toks: list[str]) -> list[Suggestion]:
         if last not in ("face",):
             out += _names(a, "map", sort="1")
         out += _kw("dual", "face")
+        if last == "=":
+            out += _kw("over", sort="3")
         return out
+    if last == "over":
+        return _names(a, "polytope")
     if len(toks) >= 2 and toks[-2] == "face":
         return _kw("at", sort="0")
     return []
@@ -299,6 +305,13 @@ def completions(a, offset: int) -> list[Suggestion]:
                 out = [Suggestion(p.name, "property", p.doc, sort="0") for p in properties_for(kind) if p.type == BOOL]
         elif len(rest) >= 2 and rest[1] == "==":
             out = _cone_expr_items(a, rest[1:])
+    elif kw == "polytope":
+        if last == "in":
+            out = _names(a, "lattice") + _kw("dual") + [Suggestion("Z^", "snippet", "the standard lattice Z^d", sort="1")]
+        elif last == "{":
+            out = _kw("vertices", "halfspaces", sort="0")
+        elif len(rest) >= 2 and rest[1] == "=" and last in ("=", "+", "*", "(", ",", "polar", "face", "hull"):
+            out = _names(a, "polytope") + (_kw("polar", "face", "hull") if last != "hull" else [])
     elif kw == "lattice":
         if last in ("=", "dual", "("):
             out = _names(a, "lattice") + [Suggestion("Z^", "snippet", "the standard lattice Z^d", sort="0")] + _kw("dual")
@@ -308,7 +321,9 @@ def completions(a, offset: int) -> list[Suggestion]:
             out = _cone_expr_items(a, rest[1:])
         elif kw == "fan" and len(rest) >= 2 and rest[1] == "=":
             if last == "=":
-                out = _kw("resolve", sort="0")
+                out = _kw("resolve", "normal", "over", sort="0")
+            elif last in ("normal", "over"):
+                out = _names(a, "polytope")
             elif last in ("resolve", "crepant"):
                 out = _names(a, "cone") + (_kw("crepant", sort="1") if last == "resolve" else [])
         elif not inside and "{" not in rest and last in ("in", "of", ":", "->", "→", "dual", "("):
@@ -513,7 +528,7 @@ def _summary_variety(a, c) -> dict | None:
 
 # ---- semantic tokens -------------------------------------------------------------------------
 TOKEN_TYPE_OF_KIND = {"lattice": "type", "cone": "variable", "map": "function", "morphism": "method",
-                      "characters": "enumMember", "fan": "namespace"}
+                      "characters": "enumMember", "fan": "namespace", "polytope": "variable"}
 TOKEN_TYPES = ("keyword", "type", "variable", "function", "method", "enumMember", "namespace",
                "property", "number", "string", "comment", "operator")
 TOKEN_MODIFIERS = ("declaration", "defaultLibrary")

@@ -47,11 +47,11 @@ SEVERITY = {"error": T.DiagnosticSeverity.Error, "warning": T.DiagnosticSeverity
 COMPLETION_KIND = {"keyword": T.CompletionItemKind.Keyword, "lattice": T.CompletionItemKind.Struct,
                    "cone": T.CompletionItemKind.Variable, "map": T.CompletionItemKind.Function,
                    "morphism": T.CompletionItemKind.Method, "characters": T.CompletionItemKind.EnumMember,
-                   "fan": T.CompletionItemKind.Module, "property": T.CompletionItemKind.Property,
+                   "fan": T.CompletionItemKind.Module, "polytope": T.CompletionItemKind.Class, "property": T.CompletionItemKind.Property,
                    "snippet": T.CompletionItemKind.Snippet}
 SYMBOL_KIND = {"lattice": T.SymbolKind.Struct, "cone": T.SymbolKind.Variable, "map": T.SymbolKind.Function,
                "morphism": T.SymbolKind.Method, "characters": T.SymbolKind.EnumMember,
-               "fan": T.SymbolKind.Module}
+               "fan": T.SymbolKind.Module, "polytope": T.SymbolKind.Class}
 PIN_COMMAND = "conelang.pinResults"
 LEGEND = T.SemanticTokensLegend(token_types=list(editor.TOKEN_TYPES), token_modifiers=list(editor.TOKEN_MODIFIERS))
 

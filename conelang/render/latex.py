@@ -370,8 +370,13 @@ def _fan(n: str, o: dict) -> list[str]:
     return L
 
 
+def _polytope(n: str, o: dict) -> list[str]:
+    from .polytope import latex_lines
+    return latex_lines(n, o, mname, vector, vectors, number)
+
+
 _KINDS = {"cone": _cone, "lattice": _lattice, "map": _map, "morphism": _morphism,
-          "characters": _characters, "fan": _fan}
+          "characters": _characters, "fan": _fan, "polytope": _polytope}
 
 
 def render_body(doc: dict) -> str:

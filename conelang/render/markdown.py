@@ -37,6 +37,9 @@ def render_object(name: str, o: dict, level: int = 2) -> str:
             L.append(f"| linear span equations | {_code(vecs(o['linear_equations']))} |")
         if "hilbert_basis" in o:
             L.append(f"| Hilbert basis of σ ∩ N | {_code(vecs(o['hilbert_basis']))} |")
+        if "hilbert_series" in o:
+            from .polytope import hilbert_text
+            L.append(f"| Hilbert series of σ ∩ N | {_code(hilbert_text(o['hilbert_series']))} |")
         var = o.get("variety")
         if var:
             L.append("")
@@ -89,6 +92,9 @@ def render_object(name: str, o: dict, level: int = 2) -> str:
                 L.append("\nequations of the orbit closure:\n```\n" + "\n".join(o["equations"]) + "\n```")
     elif kind == "fan":
         L.extend(fan_markdown(name, o, h))
+    elif kind == "polytope":
+        from .polytope import markdown_lines
+        L.extend(markdown_lines(name, o, h))
     for err in o.get("errors", []):
         L.append(f"\n*not computed:* {err}")
     return "\n".join(L)

@@ -746,6 +746,9 @@ def render(doc: dict) -> str:
             lat = doc["objects"].get(o.get("lattice"), {})
             panels = fan_panels(name, o, standard=("basis" not in lat if lat.get("kind") == "lattice"
                                                    else str(o.get("lattice", "")).startswith("Z^")))
+        elif kind == "polytope":
+            from .polytope import svg_panels
+            panels = svg_panels(name, o, Panel, PANEL, MARGIN, _f)
         if panels:
             rows.append(panels)
         elif kind in ("cone", "fan"):

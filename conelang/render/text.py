@@ -29,6 +29,9 @@ def render_object(name: str, o: dict) -> list[str]:
             lines.append(f"  linear equations: {vecs(o['linear_equations'])}")
         if "hilbert_basis" in o:
             lines.append(f"  Hilbert basis of the cone: {vecs(o['hilbert_basis'])}")
+        if "hilbert_series" in o:
+            from .polytope import hilbert_text
+            lines.append(f"  Hilbert series: {hilbert_text(o['hilbert_series'])}")
         var = o.get("variety")
         if var:
             lines.append(f"  affine toric variety U_{name} in C^{var['embedding_dimension']} (dimension {var['dimension']})")
@@ -42,6 +45,9 @@ def render_object(name: str, o: dict) -> list[str]:
                          f"{var['gorenstein_index'] if var['gorenstein_index'] is not None else 'none (not Q-Gorenstein)'}")
             lines.append(f"    class group: {var['class_group']}"
                          + (f", multiplicity: {var['multiplicity']}" if "multiplicity" in var else ""))
+    elif kind == "polytope":
+        from .polytope import text_lines
+        lines.extend(text_lines(name, o))
     elif kind == "map":
         lines.append(f"map {name}: {o['source']} -> {o['target']}")
         lines.append(f"  rows: {vecs(o['rows'])}")

@@ -36,7 +36,7 @@ from .properties import check_expect
 # the value and the diagnostics it reported (spans relative to the statement) are a function of
 # (statement type, statement text, the kinds and values of those names, the budget).  So an edit
 # re-evaluates only the edited statement and what uses a value that changed.
-_MEMO_TYPES = (A.LatticeStmt, A.ConeDef, A.ConeLet, A.MapStmt, A.CharactersStmt)
+_MEMO_TYPES = (A.LatticeStmt, A.ConeDef, A.ConeLet, A.MapStmt, A.CharactersStmt, A.PolytopeDef, A.PolytopeLet)
 _MEMO: dict[tuple, tuple] = {}
 _MEMO_MAX = 20_000
 
@@ -50,7 +50,8 @@ def clear_memo() -> None:
 
 
 KIND_ARTICLE = {"lattice": "a lattice", "cone": "a cone", "map": "a map", "morphism": "a morphism",
-                "characters": "a list of characters", "fan": "a fan"}
+                "characters": "a list of characters", "fan": "a fan",
+                "polytope": "a polytope"}
 
 
 @dataclass(frozen=True)
@@ -160,6 +161,17 @@ class Analysis:
         elif isinstance(expr, (A.ImageCone, A.PreimageCone)):
             self._use(expr.map, "map", owner)
             self._cone_uses(expr.inner, owner)
+        elif isinstance(expr, A.ConeOver):
+            self._use(expr.polytope, "polytope", owner)
+
+    def _polytope_uses(self, expr, owner) -> None:
+        if isinstance(expr, A.PolytopeRef):
+            self._use(expr.name, "polytope", owner)
+        elif isinstance(expr, (A.PolarPolytope, A.PolytopeFace, A.Dilation)):
+            self._polytope_uses(expr.inner, owner)
+        elif isinstance(expr, A.PolytopeBinary):
+            self._polytope_uses(expr.left, owner)
+            self._polytope_uses(expr.right, owner)
 
     def _resolve(self) -> None:
         for st in self.module.statements:
@@ -169,7 +181,7 @@ class Analysis:
             if isinstance(st, A.LatticeStmt):
                 if not isinstance(st.body, A.Overlattice):
                     self._lattice_uses(st.body, owner)
-            elif isinstance(st, (A.ConeDef, A.CharactersStmt, A.FanDef)):
+            elif isinstance(st, (A.ConeDef, A.CharactersStmt, A.FanDef, A.PolytopeDef)):
                 self._lattice_uses(st.lattice, owner)
             elif isinstance(st, A.ConeLet):
                 self._cone_uses(st.expr, owner)
@@ -185,6 +197,10 @@ class Analysis:
                     self._use(p, "morphism", owner)
             elif isinstance(st, A.FanResolve):
                 self._use(st.cone, "cone", owner)
+            elif isinstance(st, A.PolytopeLet):
+                self._polytope_uses(st.expr, owner)
+            elif isinstance(st, A.FanOfPolytope):
+                self._use(st.polytope, "polytope", owner)
             elif isinstance(st, A.Expect):
                 self._use(st.subject, None, None)
                 if st.cone is not None:
@@ -365,7 +381,8 @@ class Analysis:
         if isinstance(st, A.LatticeStmt):
             return V.LatticeValue(self._lattice_body(st))
         if isinstance(st, A.ConeDef):
-            return self._cone_def(st)
+            from .polytopes import with_grading
+            return with_grading(self, st, self._cone_def(st))
         if isinstance(st, A.ConeLet):
             return self._cone_expr(st.expr)
         if isinstance(st, A.MapStmt):
@@ -382,6 +399,9 @@ class Analysis:
             return self._fan_def(st)
         if isinstance(st, A.FanResolve):
             return self._fan_resolve(st)
+        from . import polytopes
+        if isinstance(st, polytopes.PolytopeStatements):
+            return polytopes.evaluate(self, st)
         raise EvalError("unknown statement")
 
     # lattices
@@ -458,6 +478,8 @@ class Analysis:
         seen: dict[str, A.Section] = {}
         for sec in st.sections:
             kw = sec.keyword.text
+            if kw == "grading":                 # see polytopes.with_grading
+                continue
             if kw in seen:
                 self._fail(sec.keyword.span, "duplicate-section", f"'{kw}' is given twice in this cone")
             seen[kw] = sec
@@ -530,6 +552,9 @@ class Analysis:
                                f"{node.source()} is not in the dual cone, so it cuts out no face: "
                                f"<{node.source()}, {rv}> = {val} < 0")
             return V.ConeValue(inner.space, gcone.face(inner.cone, u))
+        if isinstance(expr, A.ConeOver):
+            from .polytopes import cone_over
+            return cone_over(self, expr)
         if isinstance(expr, A.MeetCone):
             left, right = self._cone_expr(expr.left), self._cone_expr(expr.right)
             if left.space != right.space:

@@ -159,3 +159,35 @@ class Engine:
         if not check.valid:
             raise NotAvailable("it is not a fan: " + check.errors[0].message())
         return self.cached("fan_invariants", fan.fan_invariants, check)
+
+    # -- polytopes and Hilbert series ----------------------------------------------------
+    def polytope_data(self, P):
+        """h* and the lattice points (listed up to ``geometry.polytope.LIST_LIMIT``) of a
+        polytope: one half-open triangulation of the cone over it."""
+        from ..geometry import polytope
+        return self.cached("polytope_lattice_data", polytope.lattice_data, P, polytope.LIST_LIMIT)
+
+    def normalized_volume(self, P):
+        from ..geometry import polytope
+        return self.cached("normalized_volume", polytope.normalized_volume, P)
+
+    def f_vector(self, P):
+        from ..geometry import polytope
+        return self.cached("f_vector", polytope.f_vector, P)
+
+    def grading(self, value):
+        """The grading of a cone value: its ``grading`` section, or the default rule of
+        :func:`conelang.geometry.polytope.default_grading` (from the Hilbert basis)."""
+        from ..geometry import polytope
+        self.require_pointed(value.cone)
+        if value.grading is not None:
+            return value.grading
+        return self.cached("default_grading", lambda c, budget: polytope.default_grading(c, self.hilbert_basis(c)),
+                           value.cone)
+
+    def hilbert_series(self, value):
+        """The Hilbert series (a :class:`conelang.geometry.polytope.HilbertSeries`) of the monoid
+        of a pointed cone value, for its grading."""
+        from ..geometry import polytope
+        w = self.grading(value)
+        return self.cached("hilbert_series", polytope.hilbert_series, value.cone, w)

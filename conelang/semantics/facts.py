@@ -50,6 +50,8 @@ def object_facts(analysis, name: str, heavy: bool = True, equations: bool = True
         return characters_facts(analysis, value, heavy)
     if isinstance(value, V.FanValue):
         return fan_facts(analysis, value, heavy)
+    if isinstance(value, V.PolytopeValue):
+        return polytope_facts(analysis, value, heavy)
     return None
 
 
@@ -102,6 +104,13 @@ def cone_facts(analysis, value: V.ConeValue, heavy: bool = True, equations: bool
         out["hilbert_basis"] = [_user(s, h) for h in hb]
     if c.pointed:
         out["variety"] = variety_facts(analysis, value, errors, equations)
+    if c.pointed and len(c.rays) > HILBERT_SERIES_MAX_RAYS:
+        errors.append(f"Hilbert series: not computed for a cone with {len(c.rays)} rays (more than "
+                      f"{HILBERT_SERIES_MAX_RAYS}); 'expect … hilbert_numerator = …' computes it within the budget")
+    elif c.pointed:
+        hs = _guard(errors, "Hilbert series", lambda: hilbert_series_facts(analysis, value))
+        if hs is not None:
+            out["hilbert_series"] = hs
     if c.ambient_dim == 2:
         out.update(window_facts(value, out))
     if errors:
@@ -316,3 +325,67 @@ def window_facts(value: V.ConeValue, facts: dict) -> dict:
     return {"lattice_window": radius,
             "lattice_points": _window_points(value.space, value.cone, radius),
             "dual_lattice_points": _window_points(value.space.dual(), gcone.dual(value.cone), radius)}
+
+
+HILBERT_SERIES_MAX_RAYS = 40     # larger cones: the series is left to `expect`, not shown
+
+
+def hilbert_series_facts(analysis, value: V.ConeValue) -> dict:
+    """The Hilbert series of the monoid σ ∩ N: ``grading`` (dual lattice, user coordinates),
+    ``numerator`` (coefficients, constant term first) over ``denominator`` (the exponents e_i of
+    Π (1 - t^e_i)), ``multiplicity``, and ``quasi_polynomial`` (one coefficient list per residue
+    modulo ``period``, valid from degree ``valid_from``) or ``polynomial`` when the period is 1."""
+    hs = analysis.engine.hilbert_series(value)
+    out = {"grading": _user(value.space.dual(), hs.grading),
+           "grading_given": value.grading is not None,
+           "numerator": list(hs.numerator), "denominator": list(hs.denominator),
+           "multiplicity": jnum(hs.multiplicity), "valid_from": hs.valid_from}
+    if hs.period == 1:
+        out["polynomial"] = jvec(hs.quasi_polynomial[0])
+    else:
+        out["period"] = hs.period
+        out["quasi_polynomial"] = [jvec(q) for q in hs.quasi_polynomial]
+    return out
+
+
+def polytope_facts(analysis, value: V.PolytopeValue, heavy: bool = True) -> dict:
+    """Facts of a lattice polytope (user coordinates): ``vertices``, ``facets`` as
+    ``{"normal": u, "offset": c}`` for ``<u, x> >= -c`` (u in the dual lattice),
+    ``equations`` of the affine hull (same form, ``= -c``), ``f_vector``, ``reflexive``,
+    ``gorenstein_index``, ``origin_interior``; the heavy part adds ``lattice_points`` (the count),
+    ``points`` (the list, up to a limit), ``interior_points`` (count), ``interior``
+    (the list), ``boundary_points``, ``volume`` (normalized), ``h_star`` and ``ehrhart``
+    (coefficients, constant term first)."""
+    from ..geometry import polytope as gp
+    s, P = value.space, value.polytope
+    dual = s.dual()
+    out = {"kind": "polytope", "lattice": s.label, "ambient_dim": P.ambient_dim, "dim": P.dim,
+           "vertices": [_user(s, v) for v in P.vertices],
+           "facets": [{"normal": _user(dual, u), "offset": c} for u, c in P.facets],
+           "equations": [{"normal": _user(dual, u), "offset": c} for u, c in P.equations],
+           "reflexive": gp.is_reflexive(P), "gorenstein_index": gp.gorenstein_index(P),
+           "origin_interior": gp.origin_in_interior(P)}
+    errors: list[str] = []
+    fv = _guard(errors, "f-vector", lambda: analysis.engine.f_vector(P))
+    if fv is not None:
+        out["f_vector"] = list(fv)
+    vol = _guard(errors, "volume", lambda: analysis.engine.normalized_volume(P))
+    if vol is not None:
+        out["volume"] = vol
+    if heavy:
+        data = _guard(errors, "lattice points", lambda: analysis.engine.polytope_data(P))
+        if data is not None:
+            h, e = data.h_star, P.dim
+            count = (e + 1) * h[0] + (h[1] if len(h) > 1 else 0)
+            inner = h[e] if len(h) > e else 0
+            out.update({"lattice_points": count, "interior_points": inner, "boundary_points": count - inner,
+                        "h_star": list(h),
+                        "ehrhart": jvec(gp.ehrhart_from_h_star(h, e))})
+            if data.points is not None:
+                out["points"] = [_user(s, x) for x in data.points]
+                out["interior"] = [_user(s, x) for x in data.points if gp.in_interior(P, x)]
+            else:
+                errors.append(f"points: more than {gp.LIST_LIMIT} lattice points, only counted")
+    if errors:
+        out["errors"] = errors
+    return out

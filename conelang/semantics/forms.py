@@ -64,7 +64,7 @@ def show_result(value) -> str:
         return f'"{group_string(value)}"'
     if isinstance(value, tuple):
         return "(" + ", ".join(map(str, value)) + ")"
-    return str(value)
+    return str(value)       # Fractions print as p/q
 
 
 def violation_message(v) -> str | None:

@@ -29,6 +29,7 @@ from .engine import NotAvailable, NotPointed
 from .forms import budget_advice, fmt_vec, group_string, show_result, violation_message  # noqa: F401 (also used by facts)
 
 BOOL, INT, GROUP, OPT_INT, INTS = "yes/no", "integer", "abelian group", "integer or none", "list of integers"
+NUMS, NUM = "list of numbers", "number"
 
 
 @dataclass(frozen=True)
@@ -253,6 +254,86 @@ def _fan_picard_rank(a, v):
     return _fan_invariants(a, v).picard_group[0]
 
 
+# ---- Hilbert series of cone monoids ----------------------------------------------------------
+@prop("cone", "hilbert_numerator", INTS, "numerator of the Hilbert series of σ ∩ N for its grading, constant term first")
+def _hilbert_numerator(a, v):
+    return a.engine.hilbert_series(v).numerator
+
+
+@prop("cone", "hilbert_denominator", INTS, "the exponents e_i of the denominator Π (1 - t^e_i) of the Hilbert series")
+def _hilbert_denominator(a, v):
+    return a.engine.hilbert_series(v).denominator
+
+
+@prop("cone", "hilbert_multiplicity", NUM, "multiplicity of the graded monoid σ ∩ N: numerator(1) / Π e_i")
+def _hilbert_multiplicity(a, v):
+    return a.engine.hilbert_series(v).multiplicity
+
+
+@prop("cone", "grading", INTS, "the grading of the Hilbert series: the `grading` section or the default rule")
+def _grading(a, v):
+    return tuple(a.engine.grading(v))
+
+
+# ---- polytopes ------------------------------------------------------------------------------
+def _h(a, v):
+    return a.engine.polytope_data(v.polytope).h_star
+
+
+def _polytope_prop(name: str, type_: str, doc: str, fn) -> None:
+    prop("polytope", name, type_, doc)(fn)
+
+
+def _ehrhart(a, v):
+    from ..geometry import polytope as gp
+    return gp.ehrhart_from_h_star(_h(a, v), v.polytope.dim)
+
+
+def _lattice_count(a, v):
+    h = _h(a, v)
+    return (v.polytope.dim + 1) * h[0] + (h[1] if len(h) > 1 else 0)
+
+
+def _interior_count(a, v):
+    h = _h(a, v)
+    return h[v.polytope.dim] if len(h) > v.polytope.dim else 0
+
+
+def _gorenstein_index(a, v):
+    from ..geometry import polytope as gp
+    return gp.gorenstein_index(v.polytope)
+
+
+def _reflexive(a, v):
+    from ..geometry import polytope as gp
+    return gp.is_reflexive(v.polytope)
+
+
+for _name, _type, _doc, _fn in (
+        ("dim", INT, "dimension of the polytope (of its affine hull)", lambda a, v: v.polytope.dim),
+        ("full", BOOL, "full-dimensional in its lattice", lambda a, v: v.polytope.full),
+        ("vertices", INT, "number of vertices", lambda a, v: len(v.polytope.vertices)),
+        ("facets", INT, "number of facets", lambda a, v: len(v.polytope.facets)),
+        ("f_vector", INTS, "numbers of faces of dimension 0, 1, …, dim − 1, written (3, 3)",
+         lambda a, v: a.engine.f_vector(v.polytope)),
+        ("lattice_points", INT, "number of lattice points", _lattice_count),
+        ("interior_points", INT, "number of lattice points in the (relative) interior", _interior_count),
+        ("boundary_points", INT, "number of lattice points on the (relative) boundary",
+         lambda a, v: _lattice_count(a, v) - _interior_count(a, v)),
+        ("volume", INT, "normalized volume dim!·vol in the lattice of the affine hull (= h*(1))",
+         lambda a, v: a.engine.normalized_volume(v.polytope)),
+        ("h_star", INTS, "the h*-vector: Σ L(n) t^n = h*(t) / (1 − t)^(dim+1), written (1, 4, 1)", _h),
+        ("ehrhart", NUMS, "Ehrhart polynomial L(n) = #(nP ∩ N), coefficients from the constant term, "
+                          "written (1, 3/2, 1/2)", _ehrhart),
+        ("reflexive", BOOL, "full-dimensional with every facet <u, x> ≥ −1 (u primitive): the polar is a lattice polytope",
+         _reflexive),
+        ("gorenstein", BOOL, "r·P is reflexive up to a lattice translation for some r ≥ 1",
+         lambda a, v: _gorenstein_index(a, v) is not None),
+        ("gorenstein_index", OPT_INT, "the least such r (none if P is not Gorenstein)", _gorenstein_index)):
+    _polytope_prop(_name, _type, _doc, _fn)
+del _name, _type, _doc, _fn
+
+
 # ---- checking -------------------------------------------------------------------------------
 def parse_group(text: str):
     """Parse ``"Z^2 + Z/3"`` into ``(free_rank, invariant factors)``; None when malformed.
@@ -385,6 +466,16 @@ def _expected_value(analysis, ex: A.Expect, p: Property):
             sink.error(v.span, "expect-bad-value", f"'{p.name}' is a list of integers written like (3, 3, 1)")
             return _BAD
         return tuple(int(x) for x in v.entries)
+    if p.type == NUMS:
+        if not isinstance(v, A.Vector):
+            sink.error(v.span, "expect-bad-value", f"'{p.name}' is a list of numbers written like (1, 3/2, 1/2)")
+            return _BAD
+        return tuple(v.entries)
+    if p.type == NUM:
+        if not isinstance(v, A.Number):
+            sink.error(v.span, "expect-bad-value", f"'{p.name}' is a number such as 3 or 5/2")
+            return _BAD
+        return v.value
     return _BAD
 
 

@@ -12,6 +12,7 @@ from fractions import Fraction
 
 from ..geometry import lattice as glat
 from ..geometry.cone import Cone
+from ..geometry.polytope import Polytope
 
 Vec = tuple[int, ...]
 
@@ -68,6 +69,7 @@ class Space:
 class ConeValue:
     space: Space
     cone: Cone
+    grading: tuple[int, ...] | None = None   # the ``grading`` section (dual lattice coordinates)
 
 
 @dataclass(frozen=True)
@@ -101,6 +103,12 @@ class FanValue:
     cones: tuple[tuple[int, ...], ...]  # 0-based index lists into rays
     source_cone: str | None = None    # for ``resolve``: the cone that was resolved
     crepant: bool = False             # ``resolve crepant``: the crepant partial resolution
+
+
+@dataclass(frozen=True)
+class PolytopeValue:
+    space: Space
+    polytope: "Polytope"              # lattice coordinates (geometry.polytope.Polytope)
 
 
 @dataclass(frozen=True)

@@ -117,7 +117,14 @@ class PreimageCone:
     span: Span
 
 
-ConeExpr = Union[ConeRef, DualCone, FaceCone, MeetCone, ImageCone, PreimageCone]
+@dataclass(frozen=True)
+class ConeOver:
+    """``over P``: the cone over a lattice polytope, cone((v, 1) : v in P)."""
+    polytope: Name
+    span: Span
+
+
+ConeExpr = Union[ConeRef, DualCone, FaceCone, MeetCone, ImageCone, PreimageCone, ConeOver]
 
 
 # ---- statements ------------------------------------------------------------------------
@@ -247,8 +254,96 @@ class StringValue:
     span: Span
 
 
+# ---- lattice polytopes -----------------------------------------------------------------
+@dataclass(frozen=True)
+class Halfspace:
+    """``(u) >= b``: the halfspace {x : <u, x> >= b}."""
+    normal: Vector
+    bound: Number
+    span: Span
+
+
+@dataclass(frozen=True)
+class PolySection:
+    """``vertices v1 v2 …`` or ``halfspaces (u) >= b …``."""
+    keyword: Name
+    vectors: tuple[Vector, ...]
+    halfspaces: tuple[Halfspace, ...]
+    span: Span
+
+
+@dataclass(frozen=True)
+class PolytopeDef:
+    keyword: Name
+    name: Name
+    lattice: LatticeExpr
+    sections: tuple[PolySection, ...]
+    span: Span
+    kind = "polytope"
+
+
+@dataclass(frozen=True)
+class PolytopeRef:
+    name: Name
+    span: Span
+
+
+@dataclass(frozen=True)
+class PolarPolytope:
+    inner: "PolytopeExpr"
+    span: Span
+
+
+@dataclass(frozen=True)
+class PolytopeFace:
+    """``face P at u``: where the functional u is smallest on P."""
+    inner: "PolytopeExpr"
+    functional: Vector
+    span: Span
+
+
+@dataclass(frozen=True)
+class Dilation:
+    factor: int
+    inner: "PolytopeExpr"
+    span: Span
+
+
+@dataclass(frozen=True)
+class PolytopeBinary:
+    """``P + Q`` (Minkowski sum), ``P * Q`` (product), ``hull(P, Q)`` (convex hull)."""
+    op: str                      # "sum", "product" or "hull"
+    left: "PolytopeExpr"
+    right: "PolytopeExpr"
+    span: Span
+
+
+PolytopeExpr = Union[PolytopeRef, PolarPolytope, PolytopeFace, Dilation, PolytopeBinary]
+
+
+@dataclass(frozen=True)
+class PolytopeLet:
+    keyword: Name
+    name: Name
+    expr: PolytopeExpr
+    span: Span
+    kind = "polytope"
+
+
+@dataclass(frozen=True)
+class FanOfPolytope:
+    """``fan F = normal P`` (the inner normal fan, in the dual lattice) or ``fan F = over P``
+    (the face fan: the cones over the faces)."""
+    keyword: Name
+    name: Name
+    polytope: Name
+    which: str                   # "normal" or "face"
+    span: Span
+    kind = "fan"
+
+
 Definition = Union[LatticeStmt, ConeDef, ConeLet, MapStmt, MorphismDef, MorphismCompose,
-                   CharactersStmt, FanDef, FanResolve]
+                   CharactersStmt, FanDef, FanResolve, PolytopeDef, PolytopeLet, FanOfPolytope]
 Statement = Union[Definition, Expect]
 
 

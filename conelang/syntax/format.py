@@ -36,7 +36,7 @@ from .parser import KEYWORDS as _PARSER_KEYWORDS
 from .parser import STATEMENT_KEYWORDS
 
 KEYWORDS = frozenset(_PARSER_KEYWORDS)
-SECTION_KEYWORDS = frozenset(("rays", "halfspaces", "equations", "images", "rows", "cones"))
+SECTION_KEYWORDS = frozenset(("rays", "halfspaces", "equations", "images", "rows", "cones", "vertices", "grading"))
 
 _TOKEN = re.compile(r"""
     (?P<COMMENT>\#[^\n]*)
@@ -45,7 +45,7 @@ _TOKEN = re.compile(r"""
   | (?P<WS>[ \t\r\f]+)
   | (?P<NAME>[A-Za-z_][A-Za-z0-9_]*)
   | (?P<INT>[0-9]+)
-  | (?P<OP>\^-1|->|→|==|∘|[(){}\[\],=:^+\-/&])
+  | (?P<OP>\^-1|->|→|==|>=|≥|∘|[(){}\[\],=:^+\-/&*])
   | (?P<ERROR>.)
 """, re.VERBOSE | re.DOTALL)
 
@@ -187,7 +187,8 @@ def _is_sign(prev: _Code | None, tok: _Code) -> bool:
     if tok.text == "-":
         return True
     if tok.text == "+":
-        return prev is None or not (prev.type == "INT" or prev.text == ")")
+        return prev is None or not (prev.type == "INT" or prev.text == ")"
+                                    or (prev.type == "NAME" and prev.text not in KEYWORDS))
     return False
 
 
@@ -202,7 +203,7 @@ def _space(prevprev: _Code | None, prev: _Code | None, tok: _Code) -> bool:
         return False
     if _is_sign(prevprev, prev):
         return False
-    if t == "(" and ((prev.type == "NAME" and p not in KEYWORDS) or p == "^-1"):
+    if t == "(" and ((prev.type == "NAME" and (p not in KEYWORDS or p == "hull")) or p == "^-1"):
         return False
     return True
 

@@ -22,9 +22,10 @@ from lark.exceptions import UnexpectedCharacters, UnexpectedInput, UnexpectedTok
 from . import ast as A
 from .text import closest_word
 
-STATEMENT_KEYWORDS = ("lattice", "cone", "map", "morphism", "characters", "fan", "expect")
+STATEMENT_KEYWORDS = ("lattice", "cone", "map", "morphism", "characters", "fan", "polytope", "expect")
 KEYWORDS = STATEMENT_KEYWORDS + ("dual", "face", "at", "in", "of", "not", "rays", "halfspaces",
-                                 "equations", "images", "rows", "cones", "resolve", "crepant", "after")
+                                 "equations", "images", "rows", "cones", "resolve", "crepant", "after",
+                                 "vertices", "polar", "hull", "over", "grading")
 
 _SCAN = re.compile(r'#[^\n]*|"[^"\n]*"?|//[^\n]*|[A-Za-z_][A-Za-z0-9_]*')
 # a word that starts a line and is followed by a name, as a statement keyword is: when it is a
@@ -39,7 +40,7 @@ _YES_NO = {"yes", "no", "true", "false", "True", "False"}
 _READABLE = {
     "NAME": "a name", "INT": "a whole number", "STRING": "a quoted string", "SIGN": "a sign",
     "$END": "end of statement", "ARROW": "'->'", "INVERSE": "'^-1'", "EQEQ": "'=='",
-    "COMPOSE": "'∘'",
+    "COMPOSE": "'∘'", "GEQ": "'>='",
 }
 
 
@@ -400,14 +401,56 @@ class _Builder:
             return A.ImageCone(self.name(ch[0]), self.cone_expr(ch[1]), sp)
         if kind == "preimage":
             return A.PreimageCone(self.name(ch[0]), self.cone_expr(ch[2]), sp)
+        if kind == "cone_over":
+            return A.ConeOver(self.name(ch[1]), sp)
         raise _BuildError(f"unexpected cone expression {kind}", sp)
 
     def section(self, tree: Tree) -> A.Section:
         return A.Section(self.tok(tree.children[0]), self.vectors(tree.children[1]), self.span(tree))
 
+    # polytopes
+    def poly_section(self, tree: Tree) -> A.PolySection:
+        kw, body = tree.children[0], tree.children[1]
+        if tree.data == "vertices_section":
+            return A.PolySection(self.tok(kw), self.vectors(body), (), self.span(tree))
+        spaces = tuple(A.Halfspace(self.vector(h.children[0]), self.number(h.children[2]), self.span(h))
+                       for h in body.children if isinstance(h, Tree))
+        return A.PolySection(self.tok(kw), (), spaces, self.span(tree))
+
+    def poly_expr(self, tree: Tree):
+        kind, ch, sp = tree.data, tree.children, self.span(tree)
+        if kind == "polytope_ref":
+            return A.PolytopeRef(self.name(ch[0]), sp)
+        if kind == "polar":
+            return A.PolarPolytope(self.poly_expr(ch[1]), sp)
+        if kind == "poly_face":
+            return A.PolytopeFace(self.poly_expr(ch[1]), self.vector(ch[3]), sp)
+        if kind == "dilation":
+            return A.Dilation(int(ch[0]), self.poly_expr(ch[1]), sp)
+        if kind in ("minkowski", "poly_product"):
+            op = "sum" if kind == "minkowski" else "product"
+            return A.PolytopeBinary(op, self.poly_expr(ch[0]), self.poly_expr(ch[1]), sp)
+        if kind == "hull":
+            parts = [c for c in ch if isinstance(c, Tree)]
+            return A.PolytopeBinary("hull", self.poly_expr(parts[0]), self.poly_expr(parts[1]), sp)
+        raise _BuildError(f"unexpected polytope expression {kind}", sp)
+
     def statement(self, tree: Tree):
         kind, ch, sp = tree.data, tree.children, self.span(tree)
         kw = self.tok(ch[0])
+        if kind == "polytope_def":
+            return A.PolytopeDef(kw, self.name(ch[1]), self.lattice(ch[3]),
+                                 tuple(self.poly_section(s) for s in ch[4:]), sp)
+        if kind == "polytope_let":
+            return A.PolytopeLet(kw, self.name(ch[1]), self.poly_expr(ch[2]), sp)
+        if kind == "fan_face":
+            return A.FanOfPolytope(kw, self.name(ch[1]), self.name(ch[3]), "face", sp)
+        if kind == "fan_normal":
+            word = self.name(ch[2])
+            if word.text != "normal":
+                raise _BuildError(f"unexpected {word.text!r}; expected 'normal P', 'over P' or 'resolve σ'",
+                                  word.span)
+            return A.FanOfPolytope(kw, self.name(ch[1]), self.name(ch[3]), "normal", sp)
         if kind == "lattice_stmt":
             return A.LatticeStmt(kw, self.name(ch[1]), self.lattice(ch[2]), sp)
         if kind == "cone_def":
