@@ -132,6 +132,8 @@ def variety_facts(analysis, value: V.ConeValue, errors: list) -> dict | None:
     }
     if out["multiplicity"] is None:
         del out["multiplicity"]
+    from .singularities import singularity_facts
+    out.update(singularity_facts(analysis, value, errors))
     return out
 
 
@@ -140,7 +142,13 @@ def map_facts(value: V.MapValue, st) -> dict:
             "rows": [jvec(r) for r in value.ambient_rows],
             "lattice_matrix": [list(r) for r in value.matrix],
             "injective": gmaps.is_injective(value.matrix, value.source.rank),
-            "surjective": gmaps.is_surjective(value.matrix, value.source.rank)}
+            "surjective": gmaps.is_surjective(value.matrix, value.source.rank),
+            **_map_extra(value)}
+
+
+def _map_extra(value):
+    from .singularities import map_extra_facts
+    return map_extra_facts(value)
 
 
 def morphism_facts(analysis, value: V.MorphismValue, heavy: bool = True) -> dict:
@@ -225,6 +233,8 @@ def fan_facts(analysis, value: V.FanValue, heavy: bool = True) -> dict:
             })
             if inv.self_intersections is not None:
                 out["self_intersections"] = list(inv.self_intersections)
+        from .singularities import fan_extra_facts
+        out.update(fan_extra_facts(analysis, value, inv, errors))
         if value.source_cone:
             res = _guard(errors, "resolution", lambda: _resolution_of(analysis, value))
             if res is not None:

@@ -27,6 +27,7 @@ from .diagnostics import Related
 from .engine import NotAvailable, NotPointed
 
 BOOL, INT, GROUP, OPT_INT, INTS = "yes/no", "integer", "abelian group", "integer or none", "list of integers"
+QUOTIENT = "quotient type"          # see semantics/singularities.py
 
 
 @dataclass(frozen=True)
@@ -375,7 +376,7 @@ def check_expect(analysis, ex: A.Expect) -> None:
         sink.error(ex.span, "budget", f"cannot check '{pname}' of '{subject}': {exc}; raise it with --budget")
         return
     except NotAvailable as exc:
-        sink.error(ex.span, "not-computed-yet", f"cannot check '{pname}' of '{subject}': {exc}")
+        sink.error(ex.span, getattr(exc, "code", "not-computed-yet"), f"cannot check '{pname}' of '{subject}': {exc}")
         return
     except Cancelled:
         raise
@@ -419,6 +420,14 @@ def _expected_value(analysis, ex: A.Expect, p: Property):
             sink.error(v.span, "expect-bad-value", f"'{p.name}' is a list of integers written like (3, 3, 1)")
             return _BAD
         return tuple(int(x) for x in v.entries)
+    if p.type == QUOTIENT:
+        from .singularities import parse_quotient
+        q = parse_quotient(v.text) if isinstance(v, A.StringValue) else None
+        if q is None:
+            sink.error(v.span, "expect-bad-value",
+                       f"'{p.name}' is a quotient type written like \"1/7(1,2,4)\", \"smooth\" or a group \"Z/2 + Z/2\"")
+            return _BAD
+        return q
     return _BAD
 
 
@@ -439,3 +448,9 @@ def _difference(analysis, left, right) -> str:
             if not gcone.contains(b.cone, neg):
                 return f"the ray {fmt_vec(a.space.from_coords(neg))} of the {an} side is not in the {bn} side"
     return "they have different descriptions"
+
+
+# ---- quotient singularities, discrepancies, intersection theory (semantics/singularities.py) ---
+from . import singularities as _singularities  # noqa: E402
+
+_singularities.register(prop, BOOL, INT, GROUP)
