@@ -212,6 +212,8 @@ def fan_extra_facts(analysis, value: V.FanValue, inv, errors: list) -> dict:
     ``projective``."""
     from .facts import _guard, jnum, jvec
     out: dict = {}
+    if getattr(value, "subdivides", None):
+        out["subdivides"] = value.subdivides
     disc = _guard(errors, "discrepancies", lambda: ray_discrepancies(analysis, value))
     if disc:
         out["discrepancies"] = [jnum(a) if a is not None else None for a in disc]
