@@ -184,3 +184,20 @@ def test_curve_classes_are_relations():
         for w in ring.walls():
             cv = ring.curve_vector(w)
             assert all(sum(c * v[j] for c, v in zip(cv, rays)) == 0 for j in range(d))
+
+
+def test_star_subdivision_of_a_smooth_fan_is_a_blow_up():
+    """Star subdivision at v_i + v_j of a smooth complete surface is the blow-up of a fixed point
+    (Fulton §2.4, from memory): K^2 drops by one and the new divisor has square -1; compared
+    with the cyclic insertion done by hand above."""
+    from conelang.geometry.subdivision import star_subdivision
+    rays = [(1, 0), (0, 1), (-1, -1)]
+    cones = cyclic_cones(3)
+    rng = random.Random(3)
+    for _ in range(6):
+        c = rng.choice(cones)
+        v = tuple(rays[c[0]][k] + rays[c[1]][k] for k in range(2))
+        rays, cones = map(list, star_subdivision(rays, cones, 2, v))
+        ring = IntersectionRing(rays, cones, 2)
+        assert ring.anticanonical_degree() == 12 - len(rays)
+        assert ring.top((len(rays) - 1,) * 2) == -1

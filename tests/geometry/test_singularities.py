@@ -168,3 +168,14 @@ def test_height_points_against_a_box():
         bound = max(abs(x) for r in c.rays for x in r)
         assert S.height_points(c, m) == brute_height_points(c, m, bound), c.rays
         tried += 1
+
+
+def test_doctests():
+    """The worked examples in the docstrings of the new modules."""
+    import doctest
+
+    from conelang.geometry import intersection, subdivision
+    from conelang.render import layer
+    from conelang.semantics import singularities as sem
+    for mod in (S, intersection, subdivision, layer, sem):
+        assert doctest.testmod(mod).failed == 0, mod.__name__
