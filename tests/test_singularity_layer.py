@@ -139,3 +139,18 @@ def test_map_kernel_image_cokernel_against_sympy():
     assert o["cokernel"] == " + ".join(f"Z/{t}" for t in torsion)
     img = sympy.Matrix(o["image"]).T
     assert img.rank() == M.rank() and abs(img.det()) == 6     # index of f(Z^3) in Z^2 = |coker|
+
+
+def test_hover_and_show_formats_name_the_quotient():
+    from conelang.editor import object_markdown
+    from conelang.render import latex, text
+    a = Analysis(ONE_THIRD)
+    md = object_markdown(a, "c")
+    assert "quotient singularity 1/3(1,1,1)" in md and "junior elements (age 1): (0, 0, 1)" in md
+    h = AnalysisHost()
+    h.apply_change("mem://t.cone", ONE_THIRD + "map f : N -> N { rows (1,0,0) (0,1,0) (0,0,3) }\n")
+    doc = h.document("mem://t.cone")
+    shown = text.render(doc)
+    assert "terminal: no (the lattice point (0, 0, 1) has height ≤ 1)" in shown
+    assert "rank 3; kernel: 0; image: (1, 0, 0) (0, 1, 0) (0, 0, 3); cokernel: Z/3" in shown
+    assert "Quotient singularity 1/3(1,1,1)" in latex.render(doc)
