@@ -154,3 +154,15 @@ def test_hover_and_show_formats_name_the_quotient():
     assert "terminal: no (the lattice point (0, 0, 1) has height ≤ 1)" in shown
     assert "rank 3; kernel: 0; image: (1, 0, 0) (0, 1, 0) (0, 0, 3); cokernel: Z/3" in shown
     assert "Quotient singularity 1/3(1,1,1)" in latex.render(doc)
+
+
+def test_crepant_refinements():
+    """The blow-up of 1/3(1,1,1) at its junior point is crepant (Reid, YPG §3, from memory); the
+    blow-up of a smooth point is not (a(E) = 2); the minimal resolution of A_3 is crepant and
+    that of 1/3(1,1) is not (Fulton §2.6, from memory)."""
+    text = ONE_THIRD + ("cone o in N { rays (1,0,0) (0,1,0) (0,0,1) }\n"
+                        "fan B = star c at (0,0,1)\nfan O = star o at (1,1,1)\n"
+                        "lattice P = Z^2\ncone a3 in P { rays (0,1) (4,-3) }\ncone t in P { rays (0,1) (3,-1) }\n"
+                        "fan Ra = resolve a3\nfan Rt = resolve t\n"
+                        "expect B crepant\nexpect O not crepant\nexpect Ra crepant\nexpect Rt not crepant\n")
+    assert errors(text) == []

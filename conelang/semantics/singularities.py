@@ -185,6 +185,20 @@ def ray_discrepancies(analysis, value: V.FanValue):
     return tuple(out)
 
 
+class NotARefinement(NotAvailable):
+    code = "not-a-refinement"
+
+
+def _crepant(analysis, value: V.FanValue) -> bool:
+    disc = ray_discrepancies(analysis, value)
+    if not disc:
+        raise NotARefinement("it refines nothing: discrepancies are defined for fans made by "
+                             "'resolve', 'star' or 'refine'")
+    if any(a is None for a in disc):
+        raise NotQGorenstein("the refined cone or fan is not Q-Gorenstein, so discrepancies are not defined")
+    return all(a == 0 for a in disc)
+
+
 def intersection_ring(analysis, value: V.FanValue):
     """The :class:`geometry.intersection.IntersectionRing` of a complete simplicial fan."""
     from .properties import _fan_invariants
@@ -296,6 +310,9 @@ def register(prop, BOOL, INT, GROUP) -> None:
         lambda a, v: classes_of(a, v.cone).canonical)
     prop("cone", "log_terminal", BOOL, "U_σ is log terminal (always, when Q-Gorenstein)")(
         lambda a, v: classes_of(a, v.cone).log_terminal)
+    prop("fan", "crepant", BOOL,
+         "a refinement (resolve, star, refine) with every discrepancy 0: K pulls back to K")(
+        lambda a, v: _crepant(a, v))
     prop("fan", "projective", BOOL, "X_Σ is projective: the nef cone has interior (complete simplicial fans)")(
         lambda a, v: mori_of(a, v).projective)
     prop("fan", "mori_rays", INT, "number of extremal rays of the Mori cone NE(X_Σ) (complete simplicial fans)")(
