@@ -182,14 +182,17 @@ def quotient_group(c: Cone, budget: Budget | None = None) -> QuotientGroup | Non
     n = len(gens)
     if n == 0:
         return QuotientGroup((), 1, (), (), (1, ()), ())
-    inv = linalg.inverse_rational(gens)
-    lam = lambda p: tuple(sum(Fraction(p[i]) * inv[i][j] for i in range(n)) for j in range(n))
-    elements = []
+    det, adj = _scaled_inverse(gens)
+    raw = []
     for p in parallelepiped_points(gens, budget, "quotient group"):
         if any(p):
-            w = lam(p)
-            elements.append(GroupElement(w, model.lift(p), age(w)))
-    elements.sort(key=lambda e: (e.age, e.weights))
+            w = tuple(sum(p[i] * adj[i][j] for i in range(n)) for j in range(n))   # det · λ
+            raw.append((sum(w), w, p))
+    raw.sort()
+    elements = [GroupElement(tuple(Fraction(x, det) for x in w), model.lift(p), Fraction(a, det))
+                for a, w, p in raw]
+    inv = linalg.inverse_rational(gens)
+    lam = lambda p: tuple(sum(Fraction(p[i]) * inv[i][j] for i in range(n)) for j in range(n))
     D, _, V = linalg.smith(gens, n)
     Vinv = linalg.inverse_rational(V)
     invariants, generators = [], []
@@ -204,6 +207,18 @@ def quotient_group(c: Cone, budget: Budget | None = None) -> QuotientGroup | Non
         cyclic = (order, cyclic_type(g, order, budget))
     return QuotientGroup(tuple(c.rays), order, tuple(invariants), tuple(generators), cyclic,
                          tuple(elements))
+
+
+def _scaled_inverse(gens: Sequence[Vec]) -> tuple[int, tuple[tuple[int, ...], ...]]:
+    """``(|det|, |det| · G^-1)`` for a square integer matrix G (the second is an integer
+    matrix), so that λ = p G^-1 is computed in integers as ``(p · adj) / |det|``.
+
+    >>> _scaled_inverse([(1, 0), (1, 3)])
+    (3, ((3, 0), (-1, 1)))
+    """
+    det = abs(linalg.det(gens))
+    inv = linalg.inverse_rational(gens)
+    return det, tuple(tuple(int(x * det) for x in row) for row in inv)
 
 
 def type_string(q: QuotientGroup) -> str:
@@ -255,16 +270,14 @@ def height_points(c: Cone, m: Sequence[Fraction], budget: Budget | None = None) 
     from .monoid import parallelepiped_points, triangulate
     budget = ensure(budget)
     model = _model(c)
-    k = model.cone.ambient_dim
     found = set()
     for simplex in triangulate(model.cone, budget):
         gens = [model.cone.rays[i] for i in simplex]
-        inv = linalg.inverse_rational(gens)
+        det, adj = _scaled_inverse(gens)
+        height = [sum(row) for row in adj]            # det · (λ_1 + … + λ_k) = p · height
         for p in parallelepiped_points(gens, budget, "lattice points of height at most one"):
-            if any(p):
-                h = sum((sum(Fraction(p[i]) * inv[i][j] for i in range(k)) for j in range(k)), Fraction(0))
-                if h <= 1:
-                    found.add(model.lift(p))
+            if sum(x * y for x, y in zip(p, height)) <= det and any(p):
+                found.add(model.lift(p))
     rays = set(c.rays)
     return sorted((Fraction(dot(m, v)), v) for v in found if v not in rays)
 
