@@ -321,9 +321,13 @@ def completions(a, offset: int) -> list[Suggestion]:
             out = _cone_expr_items(a, rest[1:])
         elif kw == "fan" and len(rest) >= 2 and rest[1] == "=":
             if last == "=":
-                out = _kw("resolve", "normal", "over", sort="0")
+                out = _kw("resolve", "normal", "over", "star", "refine", sort="0")
             elif last in ("normal", "over"):
                 out = _names(a, "polytope")
+            elif last in ("star", "refine"):
+                out = _names(a, "cone") + _names(a, "fan")
+            elif len(rest) == 4 and rest[2] in ("star", "refine"):
+                out = _kw("at" if rest[2] == "star" else "by", sort="0")
             elif last in ("resolve", "crepant"):
                 out = _names(a, "cone") + (_kw("crepant", sort="1") if last == "resolve" else [])
         elif not inside and "{" not in rest and last in ("in", "of", ":", "->", "→", "dual", "("):

@@ -15,7 +15,7 @@ from conelang.cli import main
 from conelang.host import AnalysisHost
 
 CORPUS = sorted((Path(__file__).parent / "corpus" / "broken").glob("*.cone"))
-WARNING_CODES = {"not-primitive", "redundant-ray", "redundant-inequality", "ray-in-lineality",
+WARNING_CODES = {"not-primitive", "redundant-ray", "redundant-inequality", "ray-in-lineality", "existing-ray",
                  "fan-unused-ray", "fan-redundant-cone", "fan-duplicate-index", "redundant-vertex"}
 INTENT = re.compile(r"#\s*diagnostic:\s*([a-z-]+)\s+at\s+(\d+)")
 

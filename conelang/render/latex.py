@@ -21,6 +21,7 @@ from __future__ import annotations
 import re
 from fractions import Fraction
 
+from . import layer
 from .common import missing_equations
 
 PREAMBLE = r"""\documentclass{article}
@@ -271,6 +272,7 @@ def _cone(n: str, o: dict) -> list[str]:
         if "multiplicity" in var:
             inv.append(f"multiplicity {var['multiplicity']}")
         L.append("; ".join(inv) + ".")
+        L.extend(_layer_par(layer.cone_lines(var)))
     return L
 
 
@@ -288,7 +290,13 @@ def _map(n: str, o: dict) -> list[str]:
     flags = [f"{k}: {yesno(o[k])}" for k in ("injective", "surjective") if k in o]
     if flags:
         L.append(escape_text(", ".join(flags)) + ".")
+    L.extend(_layer_par(layer.map_lines(o)))
     return L
+
+
+def _layer_par(lines: list[str]) -> list[str]:
+    """Sentences of render.layer as LaTeX paragraphs."""
+    return ["", *(escape_text(x[:1].upper() + x[1:]) + "." for x in lines)] if lines else []
 
 
 def _morphism(n: str, o: dict) -> list[str]:
@@ -367,6 +375,7 @@ def _fan(n: str, o: dict) -> list[str]:
             eqs = ", ".join(f"{poly(e)} = 0" for e in ch["equations"]) or r"\text{no equations}"
             lines.append(rf"{label} &: {coords}; \quad {eqs}")
         L += _align(lines)
+    L.extend(_layer_par(layer.fan_lines(o)))
     return L
 
 

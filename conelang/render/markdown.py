@@ -1,6 +1,7 @@
 """Markdown output: ``conelang show --format markdown`` and the editor's hover."""
 from __future__ import annotations
 
+from . import layer
 from .common import missing_equations, cone_summary, torus_action_lines, vec, vecs, yesno
 
 
@@ -62,10 +63,12 @@ def render_object(name: str, o: dict, level: int = 2) -> str:
             if "multiplicity" in var:
                 inv.append(f"multiplicity {var['multiplicity']}")
             L.append(" · ".join(inv))
+            L.extend("\n" + x for x in layer.cone_lines(var))
     elif kind == "map":
         L.append(f"{h} map `{name}`: `{o['source']}` → `{o['target']}`")
         L.append("```\n" + "\n".join(vec(r) for r in o["rows"]) + "\n```")
         L.append(f"injective {yesno(o['injective'])} · surjective {yesno(o['surjective'])}")
+        L.extend("\n" + x for x in layer.map_lines(o))
     elif kind == "morphism":
         L.append(f"{h} morphism `{name}` = `{o['map']}`: `{o['source']}` → `{o['target']}`")
         if not o.get("compatible", True):
@@ -136,6 +139,7 @@ def fan_markdown(name: str, o: dict, h: str) -> list[str]:
         L.append(" · ".join(flags))
     for p in o.get("problems", []):
         L.append(f"\n**not a fan:** {p['message']} (`{p['code']}`)")
+    L.extend("\n" + x for x in layer.fan_lines(o))
     charts = o.get("charts") or []
     if charts:
         L.append("\naffine charts:")

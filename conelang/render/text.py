@@ -1,6 +1,7 @@
 """Plain text output of the computed facts (``conelang show``)."""
 from __future__ import annotations
 
+from . import layer
 from .common import missing_equations, cone_summary, torus_action_lines, vec, vecs, yesno
 
 
@@ -45,6 +46,7 @@ def render_object(name: str, o: dict) -> list[str]:
                          f"{var['gorenstein_index'] if var['gorenstein_index'] is not None else 'none (not Q-Gorenstein)'}")
             lines.append(f"    class group: {var['class_group']}"
                          + (f", multiplicity: {var['multiplicity']}" if "multiplicity" in var else ""))
+            lines.extend("    " + x for x in layer.cone_lines(var))
     elif kind == "polytope":
         from .polytope import text_lines
         lines.extend(text_lines(name, o))
@@ -52,6 +54,7 @@ def render_object(name: str, o: dict) -> list[str]:
         lines.append(f"map {name}: {o['source']} -> {o['target']}")
         lines.append(f"  rows: {vecs(o['rows'])}")
         lines.append(f"  injective: {yesno(o['injective'])}, surjective: {yesno(o['surjective'])}")
+        lines.extend("  " + x for x in layer.map_lines(o))
     elif kind == "morphism":
         lines.append(f"morphism {name} = {o['map']}: {o['source']} -> {o['target']}")
         if not o.get("compatible", True):
@@ -118,6 +121,7 @@ def fan_lines(name: str, o: dict) -> list[str]:
     if "crepant_rays" in o:
         lines.append(f"  crepant partial resolution (lattice points at height one): rays {vecs(o['crepant_rays'])}; "
                      f"smooth: {yesno(o['crepant_smooth'])}")
+    lines.extend("  " + x for x in layer.fan_lines(o))
     charts = o.get("charts") or []
     if charts:
         lines.append("  affine charts:")

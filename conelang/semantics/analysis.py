@@ -201,6 +201,8 @@ class Analysis:
                 self._polytope_uses(st.expr, owner)
             elif isinstance(st, A.FanOfPolytope):
                 self._use(st.polytope, "polytope", owner)
+            elif isinstance(st, A.FanSubdivide):
+                self._use(st.base, None, owner)
             elif isinstance(st, A.Expect):
                 self._use(st.subject, None, None)
                 if st.cone is not None:
@@ -402,6 +404,8 @@ class Analysis:
         from . import polytopes
         if isinstance(st, polytopes.PolytopeStatements):
             return polytopes.evaluate(self, st)
+        if isinstance(st, A.FanSubdivide):
+            return self._fan_subdivide(st)
         raise EvalError("unknown statement")
 
     # lattices
@@ -773,6 +777,65 @@ class Analysis:
                            "so it has no crepant subdivision at height one; use 'resolve' for a smooth refinement")
             return V.FanValue(c.space, res.crepant_rays, res.crepant_cones, st.cone.text, crepant=True)
         return V.FanValue(c.space, res.rays, res.cones, st.cone.text)
+
+    def _fan_subdivide(self, st: A.FanSubdivide) -> V.FanValue:
+        """``star X at v`` / ``refine X by v1, …``: star subdivisions (geometry.subdivision) of a
+        pointed cone or a valid fan X at vectors of its support (made primitive, with a warning)."""
+        from ..geometry import subdivision
+        base_kind = self.kind_of(st.base.text)
+        if base_kind not in ("cone", "fan"):
+            self._fail(st.base.span, "wrong-kind",
+                       f"'{st.base.text}' is {KIND_ARTICLE[base_kind]}, but a cone or a fan is expected here")
+        base = self._need(st.base)
+        space = base.space
+        if base_kind == "cone":
+            line = gcone.a_line_in(base.cone)
+            if line is not None:
+                self._fail(st.base.span, "not-pointed",
+                           f"'{st.base.text}' is not pointed (it contains the line through "
+                           f"{fmt_vec(space.from_coords(line))}), so it is not a cone of a fan")
+            rays, cones = base.cone.rays, (tuple(range(len(base.cone.rays))),)
+        else:
+            check = self.engine.fan_check(base)
+            if not check.valid:
+                self._fail(st.base.span, "invalid-fan",
+                           f"'{st.base.text}' is not a fan, so it cannot be subdivided: "
+                           + check.errors[0].message(lambda x: fmt_vec(space.from_coords(x))))
+            rays, cones = base.rays, tuple(check.cones[i] for i in check.maximal)
+        if not st.vectors:
+            self._fail(st.span, "missing-description", "'refine' needs at least one vector after 'by'")
+        d = space.rank
+        vectors = []
+        for node, x in self._vectors(st.vectors, space, "vector"):
+            g = linalg.gcd_vec(x)
+            prim = tuple(c // g for c in x)
+            if g > 1:
+                pv = fmt_vec(space.from_coords(prim))
+                self.sink.warning(node.span, "not-primitive",
+                                  f"the vector {node.source()} is not primitive; the subdivision is at the "
+                                  f"primitive vector {pv} on its ray", fixes=(Fix(f"replace by {pv}", node.span, pv),))
+            if subdivision.cone_containing(rays, cones, d, prim) is None:
+                self._fail(node.span, "not-in-support", self._outside_message(node, st.base.text, base_kind, base, prim))
+            if prim in rays or prim in vectors:
+                self.sink.warning(node.span, "existing-ray",
+                                  f"{node.source()} is already a ray, so the star subdivision at it changes nothing",
+                                  unnecessary=True)
+            vectors.append(prim)
+            rays, cones = subdivision.star_subdivision(rays, cones, d, prim, self.engine.budget())
+        return V.FanValue(space, tuple(rays), tuple(cones), subdivides=st.base.text)
+
+    def _outside_message(self, node, name: str, kind: str, base, v) -> str:
+        if kind == "cone":
+            u = next(u for u in base.cone.facets if linalg.dot(u, v) < 0) if any(
+                linalg.dot(u, v) < 0 for u in base.cone.facets) else None
+            if u is not None:
+                us = fmt_vec(base.space.dual().from_coords(u))
+                return (f"{node.source()} is not in the cone '{name}': <{us}, {node.source()}> = "
+                        f"{linalg.dot(u, v)} < 0")
+            e = next(e for e in base.cone.equations if linalg.dot(e, v) != 0)
+            es = fmt_vec(base.space.dual().from_coords(e))
+            return f"{node.source()} is not in the span of the cone '{name}': <{es}, {node.source()}> ≠ 0"
+        return f"{node.source()} lies in no cone of the fan '{name}' (outside its support)"
 
     # ------------------------------------------------------------------ expectations
     def check_expectations(self) -> None:

@@ -13,7 +13,8 @@ from collections import OrderedDict
 
 from ..geometry import budget as gbudget
 from ..geometry import cone as gcone
-from ..geometry.budget import Budget
+from ..geometry.budget import Budget, BudgetExceeded, Cancelled
+from .forms import budget_advice, fmt_vec
 
 _CACHE: "OrderedDict[tuple, object]" = OrderedDict()
 _CACHE_SIZE = 4096
@@ -160,6 +161,14 @@ class Engine:
             raise NotAvailable("it is not a fan: " + check.errors[0].message())
         return self.cached("fan_invariants", fan.fan_invariants, check)
 
+    def valid_fan_facts(self, value):
+        """:meth:`fan_facts`, with the reason a list of cones is not a fan in user coordinates."""
+        check = self.fan_check(value)
+        if not check.valid:
+            raise NotAvailable("it is not a fan: " + check.errors[0].message(
+                lambda x: fmt_vec(value.space.from_coords(x))))
+        return self.fan_facts(value)
+
     # -- polytopes and Hilbert series ----------------------------------------------------
     def polytope_data(self, P):
         """h* and the lattice points (listed up to ``geometry.polytope.LIST_LIMIT``) of a
@@ -191,3 +200,20 @@ class Engine:
         from ..geometry import polytope
         w = self.grading(value)
         return self.cached("hilbert_series", polytope.hilbert_series, value.cone, w)
+
+
+def guard(errors: list, what: str, fn):
+    """Run a heavy computation; on failure record why and return None."""
+    try:
+        return fn()
+    except Cancelled:
+        raise
+    except NotPointed:
+        errors.append(f"{what}: the cone is not pointed")
+    except BudgetExceeded as exc:
+        errors.append(f"{what}: {exc}; {budget_advice(exc)}")
+    except NotAvailable as exc:
+        errors.append(f"{what}: {exc}")
+    except Exception as exc:  # never lose the other facts to one bug
+        errors.append(f"{what}: internal error ({type(exc).__name__}: {exc})")
+    return None

@@ -15,16 +15,8 @@ from ..geometry.budget import BudgetExceeded, Cancelled
 from . import values as V
 from .engine import NotAvailable, NotPointed
 from .properties import group_string
-from .forms import budget_advice
-
-
-def jnum(x):
-    x = Fraction(x)
-    return x.numerator if x.denominator == 1 else f"{x.numerator}/{x.denominator}"
-
-
-def jvec(v) -> list:
-    return [jnum(x) for x in v]
+from .engine import guard as _guard
+from .forms import jnum, jvec  # noqa: F401 (also used by the renderers' callers)
 
 
 def _user(space: V.Space, coords) -> list:
@@ -63,23 +55,6 @@ def lattice_facts(value: V.LatticeValue) -> dict:
     if s.is_dual:
         out["dual_of"] = s.key
     return out
-
-
-def _guard(errors: list, what: str, fn):
-    """Run a heavy computation; on failure record why and return None."""
-    try:
-        return fn()
-    except Cancelled:
-        raise
-    except NotPointed:
-        errors.append(f"{what}: the cone is not pointed")
-    except BudgetExceeded as exc:
-        errors.append(f"{what}: {exc}; {budget_advice(exc)}")
-    except NotAvailable as exc:
-        errors.append(f"{what}: {exc}")
-    except Exception as exc:  # never lose the other facts to one bug
-        errors.append(f"{what}: internal error ({type(exc).__name__}: {exc})")
-    return None
 
 
 def cone_facts(analysis, value: V.ConeValue, heavy: bool = True, equations: bool = True) -> dict:
@@ -151,6 +126,8 @@ def variety_facts(analysis, value: V.ConeValue, errors: list, equations: bool = 
         out = {"generators": out.pop("generators"), **eqs, **out}
     if out["multiplicity"] is None:
         del out["multiplicity"]
+    from .singularities import singularity_facts
+    out.update(singularity_facts(analysis, value, errors))
     return out
 
 
@@ -159,7 +136,13 @@ def map_facts(value: V.MapValue, st) -> dict:
             "rows": [jvec(r) for r in value.ambient_rows],
             "lattice_matrix": [list(r) for r in value.matrix],
             "injective": gmaps.is_injective(value.matrix, value.source.rank),
-            "surjective": gmaps.is_surjective(value.matrix, value.source.rank)}
+            "surjective": gmaps.is_surjective(value.matrix, value.source.rank),
+            **_map_extra(value)}
+
+
+def _map_extra(value):
+    from .singularities import map_extra_facts
+    return map_extra_facts(value)
 
 
 def morphism_facts(analysis, value: V.MorphismValue, heavy: bool = True) -> dict:
@@ -244,6 +227,8 @@ def fan_facts(analysis, value: V.FanValue, heavy: bool = True) -> dict:
             })
             if inv.self_intersections is not None:
                 out["self_intersections"] = list(inv.self_intersections)
+        from .singularities import fan_extra_facts
+        out.update(fan_extra_facts(analysis, value, inv, errors))
         if value.source_cone:
             res = _guard(errors, "resolution", lambda: _resolution_of(analysis, value))
             if res is not None:

@@ -109,3 +109,44 @@ def budget_advice(exc) -> str:
         unit = 10 ** (len(str(needed)) - 1)
         return f"raise it with --budget {-(-needed // unit) * unit} (or --budget none)"
     return f"raise it with --budget {10 * exc.limit} or more (or --budget none)"
+
+
+def jnum(x):
+    """A number for JSON: an int, or the string ``"p/q"``.
+
+    >>> jnum(Fraction(6, 4)), jnum(3)
+    ('3/2', 3)
+    """
+    x = Fraction(x)
+    return x.numerator if x.denominator == 1 else f"{x.numerator}/{x.denominator}"
+
+
+def jvec(v) -> list:
+    """A vector for JSON (see :func:`jnum`)."""
+    return [jnum(x) for x in v]
+
+
+def parse_group(text: str):
+    """Parse ``"Z^2 + Z/3"`` into ``(free_rank, invariant factors)``; None when malformed.
+
+    >>> parse_group("Z/2 + Z/3"), parse_group("0"), parse_group("Z^2+Z/4")
+    ((0, (6,)), (0, ()), (2, (4,)))
+    """
+    text = text.replace(" ", "")
+    if text in ("0", ""):
+        return (0, ())
+    free, torsion = 0, []
+    for term in text.split("+"):
+        if term == "Z":
+            free += 1
+        elif term.startswith("Z^") and term[2:].isdigit():
+            free += int(term[2:])
+        elif term.startswith("Z/") and term[2:].isdigit() and int(term[2:]) > 0:
+            torsion.append(int(term[2:]))
+        elif term == "0":
+            continue
+        else:
+            return None
+    diag = [[t if i == j else 0 for j in range(len(torsion))] for i, t in enumerate(torsion)]
+    inv = linalg.snf_invariants(diag, len(torsion)) if torsion else ()
+    return (free, tuple(d for d in inv if d != 1))

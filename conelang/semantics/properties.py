@@ -26,10 +26,11 @@ from ..syntax import ast as A
 from ..syntax.text import closest_word
 from .diagnostics import EvalError, Related
 from .engine import NotAvailable, NotPointed
-from .forms import budget_advice, fmt_vec, group_string, show_result, violation_message  # noqa: F401 (also used by facts)
+from .forms import budget_advice, fmt_vec, group_string, parse_group, show_result, violation_message  # noqa: F401 (also used by facts)
 
 BOOL, INT, GROUP, OPT_INT, INTS = "yes/no", "integer", "abelian group", "integer or none", "list of integers"
 NUMS, NUM = "list of numbers", "number"
+QUOTIENT = "quotient type"          # see semantics/singularities.py
 
 
 @dataclass(frozen=True)
@@ -190,10 +191,7 @@ del _name, _doc
 # ---- fans -----------------------------------------------------------------------------------
 def _fan_invariants(a, v):
     """The invariants of a fan value; NotAvailable (saying why) when it is not a fan."""
-    check = a.engine.fan_check(v)
-    if not check.valid:
-            raise NotAvailable("it is not a fan: " + check.errors[0].message(lambda x: fmt_vec(v.space.from_coords(x))))
-    return a.engine.fan_facts(v)
+    return a.engine.valid_fan_facts(v)
 
 
 @prop("fan", "valid", BOOL, "the cones form a fan: pointed, listed rays extremal, any two meet in a common face")
@@ -335,32 +333,6 @@ del _name, _type, _doc, _fn
 
 
 # ---- checking -------------------------------------------------------------------------------
-def parse_group(text: str):
-    """Parse ``"Z^2 + Z/3"`` into ``(free_rank, invariant factors)``; None when malformed.
-
-    >>> parse_group("Z/2 + Z/3"), parse_group("0"), parse_group("Z^2+Z/4")
-    ((0, (6,)), (0, ()), (2, (4,)))
-    """
-    text = text.replace(" ", "")
-    if text in ("0", ""):
-        return (0, ())
-    free, torsion = 0, []
-    for term in text.split("+"):
-        if term == "Z":
-            free += 1
-        elif term.startswith("Z^") and term[2:].isdigit():
-            free += int(term[2:])
-        elif term.startswith("Z/") and term[2:].isdigit() and int(term[2:]) > 0:
-            torsion.append(int(term[2:]))
-        elif term == "0":
-            continue
-        else:
-            return None
-    diag = [[t if i == j else 0 for j in range(len(torsion))] for i, t in enumerate(torsion)]
-    inv = linalg.snf_invariants(diag, len(torsion)) if torsion else ()
-    return (free, tuple(d for d in inv if d != 1))
-
-
 def compute(analysis, kind: str, name: str, value):
     """Evaluate one registered property (may raise NotPointed, BudgetExceeded, NotAvailable)."""
     return REGISTRY[(kind, name)].compute(analysis, value)
@@ -422,7 +394,7 @@ def check_expect(analysis, ex: A.Expect) -> None:
         sink.error(ex.span, "budget", f"cannot check '{pname}' of '{subject}': {exc}; {budget_advice(exc)}")
         return
     except NotAvailable as exc:
-        sink.error(ex.span, "not-computed-yet", f"cannot check '{pname}' of '{subject}': {exc}")
+        sink.error(ex.span, getattr(exc, "code", "not-computed-yet"), f"cannot check '{pname}' of '{subject}': {exc}")
         return
     except Cancelled:
         raise
@@ -476,6 +448,14 @@ def _expected_value(analysis, ex: A.Expect, p: Property):
             sink.error(v.span, "expect-bad-value", f"'{p.name}' is a number such as 3 or 5/2")
             return _BAD
         return v.value
+    if p.type == QUOTIENT:
+        from .singularities import parse_quotient
+        q = parse_quotient(v.text) if isinstance(v, A.StringValue) else None
+        if q is None:
+            sink.error(v.span, "expect-bad-value",
+                       f"'{p.name}' is a quotient type written like \"1/7(1,2,4)\", \"smooth\" or a group \"Z/2 + Z/2\"")
+            return _BAD
+        return q
     return _BAD
 
 
@@ -494,3 +474,9 @@ def _difference(analysis, left, right) -> str:
             if not gcone.contains(b.cone, neg):
                 return f"the ray {fmt_vec(a.space.from_coords(neg))} of the {an} side is not in the {bn} side"
     return "they have different descriptions"
+
+
+# ---- quotient singularities, discrepancies, intersection theory (semantics/singularities.py) ---
+from . import singularities as _singularities  # noqa: E402
+
+_singularities.register(prop, BOOL, INT, GROUP, QUOTIENT)

@@ -103,6 +103,7 @@ class FanValue:
     cones: tuple[tuple[int, ...], ...]  # 0-based index lists into rays
     source_cone: str | None = None    # for ``resolve``: the cone that was resolved
     crepant: bool = False             # ``resolve crepant``: the crepant partial resolution
+    subdivides: str | None = None     # ``star X at v`` / ``refine X by …``: the cone or fan X
 
 
 @dataclass(frozen=True)

@@ -236,6 +236,19 @@ class FanResolve:
 
 
 @dataclass(frozen=True)
+class FanSubdivide:
+    """``fan F = star X at v`` (the star subdivision of the cone or fan X at v) or
+    ``fan F = refine X by v1, v2, …`` (star subdivisions at v1, v2, … in order)."""
+    keyword: Name
+    name: Name
+    base: Name
+    vectors: tuple[Vector, ...]
+    span: Span
+    star: bool = True
+    kind = "fan"
+
+
+@dataclass(frozen=True)
 class Expect:
     """``expect X prop``, ``expect X not prop``, ``expect X prop = value``, ``expect X == expr``."""
     keyword: Name
@@ -343,7 +356,8 @@ class FanOfPolytope:
 
 
 Definition = Union[LatticeStmt, ConeDef, ConeLet, MapStmt, MorphismDef, MorphismCompose,
-                   CharactersStmt, FanDef, FanResolve, PolytopeDef, PolytopeLet, FanOfPolytope]
+                   CharactersStmt, FanDef, FanResolve, PolytopeDef, PolytopeLet, FanOfPolytope,
+                   FanSubdivide]
 Statement = Union[Definition, Expect]
 
 

@@ -25,7 +25,8 @@ from .text import closest_word
 STATEMENT_KEYWORDS = ("lattice", "cone", "map", "morphism", "characters", "fan", "polytope", "expect")
 KEYWORDS = STATEMENT_KEYWORDS + ("dual", "face", "at", "in", "of", "not", "rays", "halfspaces",
                                  "equations", "images", "rows", "cones", "resolve", "crepant", "after",
-                                 "vertices", "polar", "hull", "over", "grading")
+                                 "vertices", "polar", "hull", "over", "grading",
+                                 "star", "refine", "by")
 
 _SCAN = re.compile(r'#[^\n]*|"[^"\n]*"?|//[^\n]*|[A-Za-z_][A-Za-z0-9_]*')
 # a word that starts a line and is followed by a name, as a statement keyword is: when it is a
@@ -478,6 +479,13 @@ class _Builder:
         if kind == "fan_resolve":
             crepant = any(isinstance(c, Token) and c.type == "CREPANT" for c in ch)
             return A.FanResolve(kw, self.name(ch[1]), self.name(ch[-1]), sp, crepant)
+        if kind in ("fan_star", "fan_refine"):
+            names = [c for c in ch if isinstance(c, Tree) and c.data == "name"]
+            if kind == "fan_star":
+                vecs = tuple(self.vector(c) for c in ch if isinstance(c, Tree) and c.data == "vector")
+            else:
+                vecs = self.vectors(ch[-1])
+            return A.FanSubdivide(kw, self.name(names[0]), self.name(names[1]), vecs, sp, kind == "fan_star")
         if kind == "expect_flag":
             negated = any(isinstance(c, Token) and c.type == "NOT" for c in ch)
             names = [c for c in ch if isinstance(c, Tree)]
