@@ -36,7 +36,7 @@ def cone_lines(var: dict) -> list[str]:
         t = "yes" if var["terminal"] else f"no (the lattice point {vec(w['terminal'])} has height ≤ 1)"
         c = "yes" if var["canonical"] else f"no (the lattice point {vec(w['canonical'])} has height < 1)"
         out.append(f"terminal: {t}; canonical: {c}; log terminal: {yesno(var['log_terminal'])}; "
-                   f"m_K = {vec(var['canonical_functional'])}")
+                   f"canonical functional {vec(var['canonical_functional'])} (value 1 on every ray)")
     return out
 
 
