@@ -12,6 +12,7 @@ import pytest
 
 from conelang.host import AnalysisHost
 from conelang.semantics import engine as sem_engine
+from conelang.syntax.parser import parse
 from conelang.syntax.text import closest_word, edit_distance
 
 
@@ -119,3 +120,18 @@ def test_edit_distance_against_brute_force():
     for w in one:
         assert edit_distance(w, word) == 1, w
     assert closest_word("xyz", ["cone", "fan"]) is None
+
+
+def test_a_line_after_a_keyword_or_operator_continues_the_statement():
+    # found by the formatter's property test: an `expect` whose object is on the next line
+    # looked like a new statement `a a = …` (the typo rule), so the formatted file broke
+    for text in ('lattice N = Z^2\ncone a in N { rays (1,0) (0,1) }\nexpect  # the quadrant\n'
+                 '    a class_group = "0"\n',
+                 'lattice N = Z^2\ncone a in N { rays (1,0) (0,1) }\nexpect a class_group =\n'
+                 '    "0"\n'):
+        module = parse(text)
+        assert module.errors == [], text
+        assert [type(s).__name__ for s in module.statements][-1] == "Expect"
+    # after a complete statement the typo rule still splits the file
+    module = parse('lattice N = Z^2\nfoo a = b\ncone c in N { rays (1,0) }\n')
+    assert len(module.errors) == 1 and "'foo' does not start a statement" in module.errors[0].message

@@ -119,7 +119,8 @@ def _split(text: str) -> tuple[list[tuple[int, int]], list[tuple[int, int]]]:
             slashes.append(m.span())
     typos = [m.start(1) for m in _LINE_START_WORD.finditer(text)
              if m.group(1) not in KEYWORDS
-             and (m.group(2) is not None or closest_word(m.group(1), STATEMENT_KEYWORDS))]
+             and (m.group(2) is not None or closest_word(m.group(1), STATEMENT_KEYWORDS))
+             and not _asks_for_more(text[:m.start(1)])]
     if typos:
         starts = sorted(set(starts).union(typos))
     pieces = []
@@ -128,6 +129,27 @@ def _split(text: str) -> tuple[list[tuple[int, int]], list[tuple[int, int]]]:
     for i, s in enumerate(starts):
         pieces.append((s, starts[i + 1] if i + 1 < len(starts) else len(text)))
     return [p for p in pieces if _has_code(text[p[0]:p[1]])], slashes
+
+
+_LAST_CODE = re.compile(r'(?:"[^"\n]*"|[^"#\n])*')
+_CONTINUES = ("=", ",", "(", "{", "[", "+", "-", "*", "/", ">", ":", "&", "|", "∘", "^", "<")
+
+
+def _asks_for_more(before: str) -> bool:
+    """True when the code before a line cannot end a statement (it ends in a keyword or an
+    operator), so the line continues that statement and never starts a new one.
+
+    >>> _asks_for_more("expect  # the wedge\\n"), _asks_for_more("lattice N = Z^2\\n")
+    (True, False)
+    """
+    for line in reversed(before.splitlines()):
+        code = _LAST_CODE.match(line).group(0).rstrip()
+        if code:
+            last = re.search(r'[A-Za-z_][A-Za-z0-9_]*$', code)
+            if last:
+                return last.group(0) in KEYWORDS
+            return code.endswith(_CONTINUES)
+    return False
 
 
 def _has_code(piece: str) -> bool:
