@@ -76,11 +76,15 @@ def test_a_job_that_ignores_cancellation_is_killed_after_the_grace_time():
     w = HeavyWorker(grace=0.2, max_seconds=None)
     w.start()
     try:
+        # the child must be up and inside the job: a job cancelled before the child reads it is
+        # answered "cancelled" at once, with no restart (seen on a loaded machine)
+        assert w.submit("ping", "", "", key="").result(WAIT) == "pong"
         fut = w.submit("hang", "mem://h", "", 120, key="old")
         for _ in range(600):
             if w._running is not None:
                 break
             cf.wait([fut], timeout=0.05)
+        cf.wait([fut], timeout=0.5)
         w.cancel_stale("mem://h", None)
         with pytest.raises(JobCancelled):
             fut.result(WAIT)
