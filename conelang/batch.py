@@ -2,6 +2,9 @@
 
 Each file is checked on its own (:func:`check_path`), so the verdicts do not depend on how the
 work is spread; results come back in the order of the input, so the output is deterministic.
+A process (each worker, with ``jobs`` or a scheduler) keeps one analysis host, so a file that
+other files ``use`` is analysed, and its definitions computed, once per process; the
+diagnostics of a file are reported for that file only.
 
 >>> import tempfile, pathlib
 >>> d = pathlib.Path(tempfile.mkdtemp()); (d / "a.cone").write_text("lattice N = Z^2\\n")
@@ -18,9 +21,23 @@ from concurrent.futures import ProcessPoolExecutor
 from pathlib import Path
 
 
-def check_path(path: str, budget_limit=None) -> dict:
+_HOST: list = [None, None]           # (settings and run, host) of this process
+
+
+def process_host(budget_limit=None, allow_outside_root: bool = False, run_id: str = ""):
+    """The analysis host of this process for one run of :func:`run` (files that other files use
+    stay analysed in it, see :meth:`conelang.host.AnalysisHost.release`; a new run, say on a
+    long-lived cluster worker, starts afresh, so it sees the files as they are now)."""
+    key = (budget_limit, allow_outside_root, run_id)
+    if _HOST[0] != key or _HOST[1] is None:
+        from .host import AnalysisHost
+        from .project import FileLoader
+        _HOST[:] = [key, AnalysisHost(budget_limit, loader=FileLoader(allow_outside_root))]
+    return _HOST[1]
+
+
+def check_path(path: str, budget_limit=None, allow_outside_root: bool = False, run_id: str | None = None) -> dict:
     """Check one file; never raises.  Returns a plain dict (picklable, JSON-ready)."""
-    from .host import AnalysisHost
     p = Path(path)
     try:
         text = p.read_text(encoding="utf-8")
@@ -31,21 +48,27 @@ def check_path(path: str, budget_limit=None) -> dict:
         return {"path": path, "status": "unreadable", "message": f"cannot read ({exc.strerror})",
                 "lines": [], "errors": 0, "warnings": 0}
     t0 = time.perf_counter()
-    host = AnalysisHost(budget_limit)
+    if run_id is None:                    # one file on its own: a fresh look at the disk
+        import uuid
+        run_id = uuid.uuid4().hex
+    host = process_host(budget_limit, allow_outside_root, run_id)
     host.apply_change(path, text)
-    a = host.analysis(path)
-    lines, errors, warnings = [], 0, 0
-    for d in host.diagnostics(path):
-        line, col = a.index.position(d.span[0])
-        lines.append(f"{path}:{line + 1}:{col + 1}: {d.severity}: {d.message} [{d.code}]")
-        errors += d.severity == "error"
-        warnings += d.severity == "warning"
+    try:
+        a = host.analysis(path)
+        lines, errors, warnings = [], 0, 0
+        for d in host.diagnostics(path):
+            line, col = a.index.position(d.span[0])
+            lines.append(f"{path}:{line + 1}:{col + 1}: {d.severity}: {d.message} [{d.code}]")
+            errors += d.severity == "error"
+            warnings += d.severity == "warning"
+    finally:
+        host.release(path)
     return {"path": path, "status": "failed" if errors else "ok", "message": "", "lines": lines,
             "errors": errors, "warnings": warnings, "seconds": round(time.perf_counter() - t0, 4)}
 
 
-def _check_many(paths: list[str], budget_limit) -> list[dict]:
-    return [check_path(p, budget_limit) for p in paths]
+def _check_many(paths: list[str], budget_limit, allow_outside_root: bool = False, run_id: str = "") -> list[dict]:
+    return [check_path(p, budget_limit, allow_outside_root, run_id) for p in paths]
 
 
 def _chunks(items: list, size: int) -> list[list]:
@@ -53,16 +76,19 @@ def _chunks(items: list, size: int) -> list[list]:
 
 
 def run(paths: list[str], jobs: int = 1, budget_limit=None, progress=None, scheduler: str | None = None,
-        client=None) -> list[dict]:
+        client=None, allow_outside_root: bool = False) -> list[dict]:
     """Check ``paths``; ``jobs`` local processes, or a dask.distributed ``scheduler`` address
-    (or an existing ``client``).  ``progress(done, total)`` is called as results arrive."""
+    (or an existing ``client``).  ``progress(done, total)`` is called as results arrive.
+    ``allow_outside_root``: ``use`` statements may name files outside the project root."""
+    import uuid
     total = len(paths)
+    run_id = uuid.uuid4().hex
     if scheduler is not None or client is not None:
-        return _run_dask(paths, budget_limit, progress, scheduler, client)
+        return _run_dask(paths, budget_limit, progress, scheduler, client, allow_outside_root, run_id)
     if jobs <= 1 or total <= 1:
         out = []
         for i, p in enumerate(paths, 1):
-            out.append(check_path(p, budget_limit))
+            out.append(check_path(p, budget_limit, allow_outside_root, run_id))
             if progress:
                 progress(i, total)
         return out
@@ -75,14 +101,15 @@ def run(paths: list[str], jobs: int = 1, budget_limit=None, progress=None, sched
     chunks = _chunks(paths, size)
     out: list[dict] = []
     with ProcessPoolExecutor(max_workers=jobs) as pool:
-        for res in pool.map(_check_many, chunks, [budget_limit] * len(chunks)):
+        for res in pool.map(_check_many, chunks, [budget_limit] * len(chunks),
+                            [allow_outside_root] * len(chunks), [run_id] * len(chunks)):
             out.extend(res)
             if progress:
                 progress(len(out), total)
     return out
 
 
-def _run_dask(paths, budget_limit, progress, scheduler, client):
+def _run_dask(paths, budget_limit, progress, scheduler, client, allow_outside_root=False, run_id=""):
     try:
         from dask.distributed import Client, as_completed
     except ImportError:
@@ -92,7 +119,8 @@ def _run_dask(paths, budget_limit, progress, scheduler, client):
         client = Client(scheduler)
     try:
         chunks = _chunks(paths, 16)
-        futures = client.map(_check_many, chunks, budget_limit=budget_limit, pure=False)
+        futures = client.map(_check_many, chunks, budget_limit=budget_limit,
+                             allow_outside_root=allow_outside_root, run_id=run_id, pure=False)
         index = {f.key: i for i, f in enumerate(futures)}
         results: list = [None] * len(chunks)
         done = 0

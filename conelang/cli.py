@@ -63,7 +63,8 @@ def cmd_check(args) -> int:
     progress = batch.Progress() if (args.progress or len(files) >= 200) else None
     try:
         results = batch.run([str(f) for f in files], jobs=args.jobs or batch.default_jobs(),
-                            budget_limit=args.budget, progress=progress, scheduler=args.scheduler)
+                            budget_limit=args.budget, progress=progress, scheduler=args.scheduler,
+                            allow_outside_root=args.allow_outside_root)
     except RuntimeError as exc:
         raise UsageError(str(exc)) from None
     for r in results:
@@ -159,13 +160,19 @@ def cmd_show(args) -> int:
     if not path.is_file():
         raise UsageError(f"{args.path}: no such file")
     progress = _Progress() if sys.stderr.isatty() else None
-    host = AnalysisHost(args.budget, progress=progress)
+    from .project import FileLoader
+    from .semantics.imports import Imported
+    host = AnalysisHost(args.budget, progress=progress, loader=FileLoader(args.allow_outside_root))
     uri = str(path)
     host.apply_change(uri, _read(path))
     a = host.analysis(uri)
     unknown = [n for n in args.names if n not in a.defs]
     if unknown:
         raise UsageError(f"{path}: no definition named {', '.join(unknown)}")
+    elsewhere = [f"'{n}' is defined in {a.defs[n].source_label}" for n in args.names
+                 if isinstance(a.defs[n], Imported)]
+    if elsewhere:
+        raise UsageError(f"{path}: {'; '.join(elsewhere)}: show that file")
     try:
         doc = host.document(uri, label=str(path), names=args.names or None)
     finally:
@@ -244,6 +251,8 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--version", action="version", version="conelang " + __import__("conelang").__version__)
     sub = p.add_subparsers(dest="command", required=True)
     budget_help = f"work budget per heavy computation (default {gbudget.DEFAULT_LIMIT}, or 'none')"
+    outside_help = ("let use statements name files outside the project root (the folder with .git "
+                    "or conelang.toml)")
 
     c = sub.add_parser("check", help="check files or folders of .cone files")
     c.add_argument("paths", nargs="+", metavar="PATH")
@@ -255,6 +264,7 @@ def build_parser() -> argparse.ArgumentParser:
     c.add_argument("--json-summary", metavar="FILE", help="write a JSON summary for CI to FILE ('-' for stdout)")
     c.add_argument("--scheduler", metavar="ADDRESS",
                    help="hand the files to a dask.distributed scheduler (needs conelang[distributed])")
+    c.add_argument("--allow-outside-root", action="store_true", help=outside_help)
     c.set_defaults(run=cmd_check)
 
     s = sub.add_parser("show", help="print the computed facts of a file's objects")
@@ -264,6 +274,7 @@ def build_parser() -> argparse.ArgumentParser:
     s.add_argument("--whole-document", action="store_true",
                    help="with --format latex: a complete document instead of a fragment to \\input")
     s.add_argument("--budget", type=_budget, default=gbudget.DEFAULT_LIMIT, help=budget_help)
+    s.add_argument("--allow-outside-root", action="store_true", help=outside_help)
     s.set_defaults(run=cmd_show)
 
     f = sub.add_parser("format", help="rewrite .cone files in the canonical layout")

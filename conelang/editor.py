@@ -417,7 +417,7 @@ def pin_target(a, offset: int) -> str | None:
         st = a.statement_at(offset)
         if isinstance(st, A.Expect):
             name = st.subject.text
-        elif st is not None:
+        elif st is not None and A.is_definition(st):
             name = st.name.text
     from .semantics.properties import properties_for
     if name is None or a.defs.get(name) is None or not properties_for(a.kind_of(name)):
@@ -548,7 +548,10 @@ def semantic_tokens(a) -> list[tuple[int, int, str, tuple[str, ...]]]:
     """
     kinds: dict[int, tuple[str, bool]] = {}
     for st in a.module.statements:
-        if not isinstance(st, A.Expect):
+        if A.is_definition(st):
+            kinds[st.name.span[0]] = (st.kind, True)
+    for st in a.defs.values():
+        if not A.is_definition(st) and st.name.span != st.use.path_span:   # a name in a use list
             kinds[st.name.span[0]] = (st.kind, True)
     for ref in a.refs:
         if ref.target is not None and a.kind_of(ref.target):
@@ -590,7 +593,7 @@ def outline(module: A.Module, text: str) -> list[Symbol]:
     """The definitions of a parsed file, in order (no evaluation: cheap enough for a
     workspace of files)."""
     return [Symbol(st.name.text, st.kind, _detail(st, text), st.span, st.name.span)
-            for st in module.statements if not isinstance(st, A.Expect)]
+            for st in module.statements if A.is_definition(st)]
 
 
 def outline_of_text(text: str) -> list[Symbol]:
@@ -684,7 +687,12 @@ def rename(a, offset: int, new_name: str) -> list[Edit]:
     hit = prepare_rename(a, offset)
     if hit is None:
         raise RenameError("no defined name here")
-    _, old = hit
+    return rename_name(a, hit[1], new_name)
+
+
+def rename_name(a, old: str, new_name: str) -> list[Edit]:
+    """:func:`rename` of the name ``old`` of this file (a definition, or a name a ``use``
+    statement brings in: then its place in the use list, if it is written there, and its uses)."""
     if not NAME_RE.match(new_name or ""):
         raise RenameError(f"'{new_name}' is not a valid name (letters, digits and _, not starting with a digit)")
     if new_name in KEYWORDS:
@@ -692,11 +700,18 @@ def rename(a, offset: int, new_name: str) -> list[Edit]:
     if new_name == old:
         return []
     if new_name in a.defs:
-        line = a.index.position(a.defs[new_name].name.span[0])[0] + 1
-        raise RenameError(f"'{new_name}' is already defined on line {line}")
-    spans = {a.defs[old].name.span}
+        other = a.defs[new_name]
+        line = a.index.position(other.name.span[0])[0] + 1
+        how = "already defined" if A.is_definition(other) else "already used from another file"
+        raise RenameError(f"'{new_name}' is {how} on line {line}")
+    entry = a.defs[old]
+    spans = set()
+    if A.is_definition(entry):
+        spans.add(entry.name.span)
+    elif entry.name.span != entry.use.path_span:        # written in the list of a use statement
+        spans.add(entry.name.span)
     for st in a.module.statements:
-        if not isinstance(st, A.Expect) and st.name.text == old:
+        if A.is_definition(st) and st.name.text == old:
             spans.add(st.name.span)          # duplicates of the definition too
     spans.update(r.name.span for r in a.refs if r.target == old)
     for err in a.module.errors:

@@ -18,6 +18,7 @@ from .semantics.analysis import Analysis
 from .semantics.diagnostics import Diagnostic
 from .semantics.engine import Engine
 from .semantics.facts import object_facts
+from .semantics.imports import Imported, ImportFailure, Resolved
 from .syntax import ast as A
 from .syntax.text import LineIndex
 from . import editor
@@ -31,30 +32,154 @@ def diagnostic_json(d: Diagnostic, index) -> dict:
 
 
 class AnalysisHost:
-    def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT, cancel=None, progress=None):
+    def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT, cancel=None, progress=None,
+                 loader=None):
         """``cancel``: an object with ``is_set()`` (a threading or multiprocessing Event, or the
         language server's per-job flag) that stops heavy computations when set.  ``progress``:
         called as ``progress(what, budget)`` when a heavy computation starts (``what`` names the
         computation; ``budget.used`` grows while it runs) and ``progress(name, None)`` when the
-        facts of the definition ``name`` are about to be computed."""
+        facts of the definition ``name`` are about to be computed.  ``loader``: reads the files
+        that ``use`` statements name (:class:`conelang.project.FileLoader`); without one, a
+        ``use`` statement is an error.  Open files (``apply_change``) win over the loader's."""
         self.budget_limit = budget_limit
         self.cancel = cancel
         self.progress = progress
         self.texts: dict[str, str] = {}
         self._analyses: dict[str, Analysis] = {}
         self._indexes: dict[str, LineIndex] = {}
+        self.loader = loader
+        self._disk: dict[str, object] = {}           # texts (or failures) read by the loader
+        self._graph: dict[str, tuple[str, list]] = {}   # uri -> (text, the uris its use statements name)
+        self._importers: dict[str, set[str]] = {}    # uri -> uris whose cached analysis uses it
+        self._released: dict[str, None] = {}          # see release(), oldest first
 
     # -- files ---------------------------------------------------------------------------
     def apply_change(self, uri: str, text: str) -> None:
         if self.texts.get(uri) != text:
             self.texts[uri] = text
-            self._analyses.pop(uri, None)
-            self._indexes.pop(uri, None)
+            self._drop(uri)
 
     def remove(self, uri: str) -> None:
-        self.texts.pop(uri, None)
-        self._analyses.pop(uri, None)
-        self._indexes.pop(uri, None)
+        """Close ``uri``: from now on the files that use it read it from disk."""
+        if self.texts.pop(uri, None) is not None:
+            self._drop(uri)
+
+    def invalidate(self, uri: str) -> None:
+        """``uri`` changed on disk: read it again when it is next needed."""
+        self._disk.pop(uri, None)
+        self._drop(uri)
+
+    def release(self, uri: str, keep: int = 64) -> None:
+        """Batch is done with ``uri``: its analysis stays cached while another cached analysis
+        uses it, or among the last ``keep`` released files (a file checked before the files that
+        use it is then analysed once, not twice); older ones are forgotten."""
+        if uri in self.texts:
+            self._disk.setdefault(uri, self.texts.pop(uri))
+        self._released.pop(uri, None)
+        self._released[uri] = None
+        while len(self._released) > keep:
+            old = next(iter(self._released))
+            del self._released[old]
+            if not any(u in self._analyses for u in self._importers.get(old, ())):
+                for cache in (self._disk, self._analyses, self._indexes, self._graph, self._importers):
+                    cache.pop(old, None)
+
+    def _drop(self, uri: str) -> None:
+        """Forget what was computed from the text of ``uri``, and the analyses of every file
+        that uses it (directly or through other files)."""
+        todo, seen = [uri], set()
+        while todo:
+            u = todo.pop()
+            if u in seen:
+                continue
+            seen.add(u)
+            self._analyses.pop(u, None)
+            self._indexes.pop(u, None)
+            todo.extend(self._importers.pop(u, ()))
+            todo.extend(v for v, (_, targets) in list(self._graph.items()) if u in targets)
+
+    def dependents(self, uri: str, candidates=()) -> list[str]:
+        """The files that use ``uri``, directly or through other files: among the files this host
+        knows and ``candidates`` (say, every ``.cone`` file of the editor's workspace)."""
+        known = set(self.texts) | set(self._graph) | set(candidates)
+        out = [u for u in sorted(known) if u != uri and self._path_between(u, uri) is not None]
+        return out
+
+    # -- use statements (the loader does the reading; see conelang.project) --------------
+    def _source(self, uri: str, path: str | None = None):
+        """The text of ``uri``: the open one, or what the loader reads (an ImportFailure when it
+        cannot)."""
+        if uri in self.texts:
+            return self.texts[uri]
+        got = self._disk.get(uri)
+        if got is None:
+            if self.loader is None:
+                return ImportFailure("import-not-found", f"cannot read \"{path or uri}\" here")
+            got = self.loader.load(uri, path or uri)
+            if not isinstance(got, ImportFailure):      # a failure is not kept: it is cheap to try again
+                self._disk[uri] = got
+        return got
+
+    def _uses_of(self, uri: str) -> list[str]:
+        """The files the use statements of ``uri`` name (those that can be located)."""
+        text = self._source(uri)
+        if isinstance(text, ImportFailure):
+            return []
+        hit = self._graph.get(uri)
+        if hit is not None and hit[0] == text:
+            return hit[1]
+        targets = []
+        if self.loader is not None and "use" in text:
+            from .syntax.parser import parse
+            for st in parse(text).statements:
+                if isinstance(st, A.UseStmt):
+                    got = self.loader.locate(uri, st.path)
+                    if isinstance(got, str):
+                        targets.append(got)
+        self._graph[uri] = (text, targets)
+        return targets
+
+    def _path_between(self, start: str, goal: str) -> list[str] | None:
+        """A chain of files ``start → … → goal`` along use statements, or None."""
+        parent, todo = {start: None}, [start]
+        while todo:
+            u = todo.pop()
+            if u == goal:
+                chain = []
+                while u is not None:
+                    chain.append(u)
+                    u = parent[u]
+                return chain[::-1]
+            for v in self._uses_of(u):
+                if v not in parent:
+                    parent[v] = u
+                    todo.append(v)
+        return None
+
+    def _resolver(self, uri: str):
+        def resolve(path: str):
+            if self.loader is None:
+                return ImportFailure("import-not-found",
+                                     f"cannot read \"{path}\" here: other files are only read for a file on disk")
+            target = self.loader.locate(uri, path)
+            if isinstance(target, ImportFailure):
+                return target
+            chain = self._path_between(target, uri)
+            if chain is not None:
+                names = [self._label(u) for u in [uri] + chain]
+                return ImportFailure("import-cycle", "files that use each other: " + " → ".join(names))
+            text = self._source(target, path)
+            if isinstance(text, ImportFailure):
+                return text
+            self._importers.setdefault(target, set()).add(uri)
+            return Resolved(target, path, self.analysis(target))
+        return resolve
+
+    def _label(self, uri: str) -> str:
+        import os
+        from urllib.parse import unquote, urlparse
+        p = unquote(urlparse(uri).path) if uri.startswith("file:") else uri
+        return os.path.basename(p) or uri
 
     def forget_analysis(self, uri: str) -> None:
         """Drop the cached analysis of ``uri`` (e.g. after a cancelled computation)."""
@@ -75,13 +200,18 @@ class AnalysisHost:
             return a.index
         ix = self._indexes.get(uri)
         if ix is None:
-            ix = self._indexes[uri] = LineIndex(self.texts.get(uri, ""))
+            text = self.texts.get(uri) if uri in self.texts else self._source(uri)
+            ix = self._indexes[uri] = LineIndex(text if isinstance(text, str) else "")
         return ix
 
     def analysis(self, uri: str, engine: Engine | None = None) -> Analysis:
         a = self._analyses.get(uri)
         if a is None:
-            a = Analysis(self.texts.get(uri, ""), engine or Engine(self.budget_limit, self.cancel, self.progress))
+            text = self._source(uri) if (uri not in self.texts and self.loader is not None) else self.texts.get(uri, "")
+            if isinstance(text, ImportFailure):
+                text = ""
+            a = Analysis(text, engine or Engine(self.budget_limit, self.cancel, self.progress),
+                         resolver=self._resolver(uri))
             self._analyses[uri] = a
         return a
 
@@ -96,7 +226,7 @@ class AnalysisHost:
         diags = a.diagnostics(True)
         objects = {}
         for name, st in a.defs.items():
-            if names and name not in names:
+            if names and name not in names or isinstance(st, Imported):   # an imported file's own
                 continue
             if self.progress is not None:
                 self.progress(name, None)
@@ -116,6 +246,76 @@ class AnalysisHost:
         st = a.defs.get(hit[1])
         return st.name.span if st is not None else None
 
+    # -- questions across files (a name brought in by `use` leads to the file defining it) --
+    def _origin(self, uri: str, offset: int):
+        """(uri, name) of the definition that the name under ``offset`` means, or None."""
+        a = self.analysis(uri)
+        hit = a.node_at(offset)
+        if hit is None or hit[1] is None or hit[1] not in a.defs:
+            return None
+        entry = a.defs[hit[1]]
+        if isinstance(entry, Imported):
+            return entry.source_uri, entry.source_name
+        return uri, hit[1]
+
+    def _users(self, origin_uri: str, name: str, candidates=()):
+        """(uri, analysis, local name, entry) for every file that brings ``name`` of
+        ``origin_uri`` in with a use statement."""
+        for u in self.dependents(origin_uri, candidates):
+            a = self.analysis(u)
+            for local, e in a.defs.items():
+                if isinstance(e, Imported) and (e.source_uri, e.source_name) == (origin_uri, name):
+                    yield u, a, local, e
+
+    def definition_location(self, uri: str, offset: int):
+        """(uri, span) of the definition of the name under ``offset``, in whichever file."""
+        got = self._origin(uri, offset)
+        if got is None:
+            return None
+        origin_uri, name = got
+        return origin_uri, self.analysis(origin_uri).defs[name].name.span
+
+    def references_everywhere(self, uri: str, offset: int, include_definition: bool = True,
+                              candidates=()) -> list[tuple[str, tuple]]:
+        """(uri, span) of every use of the name under ``offset``: in the file defining it and
+        in the files that use it (those this host knows, and ``candidates``)."""
+        got = self._origin(uri, offset)
+        if got is None:
+            return []
+        origin_uri, name = got
+        a0 = self.analysis(origin_uri)
+        out = [(origin_uri, a0.defs[name].name.span)] if include_definition else []
+        out += [(origin_uri, r.name.span) for r in a0.refs if r.target == name]
+        for u, a, local, e in self._users(origin_uri, name, candidates):
+            if e.name.span != e.use.path_span:
+                out.append((u, e.name.span if e.name.text == name else
+                            next(i.name.span for i in e.use.items if i.local.text == local)))
+            out += [(u, r.name.span) for r in a.refs if r.target == local]
+        return out
+
+    def rename_everywhere(self, uri: str, offset: int, new_name: str, candidates=()) -> dict[str, list]:
+        """Edits per file renaming the name under ``offset`` in every file that means it.  A
+        local alias (``use "f.cone" (wedge as w)``) is renamed in its own file only; otherwise
+        the definition is renamed in its file and in every file that uses it, the names in use
+        lists included (an alias elsewhere keeps its local name).  Raises
+        :class:`conelang.editor.RenameError` when the new name clashes in any of them."""
+        a = self.analysis(uri)
+        hit = editor.prepare_rename(a, offset)
+        if hit is None:
+            raise editor.RenameError("no defined name here")
+        entry = a.defs[hit[1]]
+        if isinstance(entry, Imported) and entry.name.text != entry.source_name:
+            return {uri: editor.rename_name(a, hit[1], new_name)}
+        origin_uri, name = (entry.source_uri, entry.source_name) if isinstance(entry, Imported) else (uri, hit[1])
+        edits = {origin_uri: editor.rename_name(self.analysis(origin_uri), name, new_name)}
+        for u, ua, local, e in self._users(origin_uri, name, candidates):
+            if local != name:                  # brought in under an alias: only the listed name
+                item = next(i for i in e.use.items if i.local.text == local)
+                edits.setdefault(u, []).append(editor.Edit(item.name.span, new_name))
+            else:
+                edits.setdefault(u, []).extend(editor.rename_name(ua, local, new_name))
+        return {u: sorted(es, key=lambda e: e.span) for u, es in edits.items() if es}
+
     def references(self, uri: str, offset: int, include_definition: bool = True) -> list:
         a = self.analysis(uri)
         hit = a.node_at(offset)
@@ -131,7 +331,7 @@ class AnalysisHost:
         """(name, kind, statement span, name span) for every definition, in file order."""
         a = self.analysis(uri)
         return [(st.name.text, st.kind, st.span, st.name.span)
-                for st in a.module.statements if not isinstance(st, A.Expect)]
+                for st in a.module.statements if A.is_definition(st)]
 
     # -- editor questions (see conelang.editor; every answer is a pure function of the text) --
     def hover(self, uri: str, offset: int, heavy: bool = True) -> tuple[str, tuple] | None:

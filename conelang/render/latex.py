@@ -388,17 +388,29 @@ _KINDS = {"cone": _cone, "lattice": _lattice, "map": _map, "morphism": _morphism
           "characters": _characters, "fan": _fan, "polytope": _polytope}
 
 
+def object_lines(n: str, o: dict) -> list[str]:
+    """The lines of one object's facts (none for an unknown kind)."""
+    fn = _KINDS.get(o.get("kind"))
+    if fn is None:
+        return []
+    L = fn(n, o)
+    for err in o.get("errors", []):
+        L.append(r"\emph{Not computed:} " + escape_text(err) + r"\par")
+    return L
+
+
+def render_object(n: str, o: dict) -> str:
+    """The facts of one object as a fragment (the Python API's ``_repr_latex_``)."""
+    return "\n".join(object_lines(n, o)) + "\n"
+
+
 def render_body(doc: dict) -> str:
     """The body of the document (no preamble)."""
     L = [r"\section*{" + escape_text(doc.get("file", "")) + "}"]
     for n, o in doc.get("objects", {}).items():
-        fn = _KINDS.get(o.get("kind"))
-        if fn is None:
-            continue
-        L += fn(n, o)
-        for err in o.get("errors", []):
-            L.append(r"\emph{Not computed:} " + escape_text(err) + r"\par")
-        L.append("")
+        lines = object_lines(n, o)
+        if lines:
+            L += lines + [""]
     diags = doc.get("diagnostics", [])
     if diags:
         L.append(r"\subsection*{Diagnostics}")

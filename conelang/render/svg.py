@@ -734,33 +734,51 @@ def render(doc: dict) -> str:
     rows: list[list[Panel]] = []
     skipped = []
     for name, o in doc.get("objects", {}).items():
-        kind = o.get("kind")
-        panels = []
-        if kind == "cone":
-            lat = doc["objects"].get(o.get("lattice"), {})
-            basis = lat.get("basis") if lat.get("kind") == "lattice" and "dual_of" not in lat else None
-            panels = cone_panels(name, o, basis)
-        elif kind == "morphism":
-            panels = morphism_panels(name, o, doc["objects"])
-        elif kind == "fan":
-            lat = doc["objects"].get(o.get("lattice"), {})
-            panels = fan_panels(name, o, standard=("basis" not in lat if lat.get("kind") == "lattice"
-                                                   else str(o.get("lattice", "")).startswith("Z^")))
-        elif kind == "polytope":
-            from .polytope import svg_panels
-            panels = svg_panels(name, o, Panel, PANEL, MARGIN, _f)
+        panels = object_panels(name, o, doc["objects"])
         if panels:
             rows.append(panels)
-        elif kind in ("cone", "fan"):
+        elif o.get("kind") in ("cone", "fan"):
             skipped.append(name)
     if not rows:
         note = "nothing to draw: pictures are made for cones and fans in lattices of rank 2 and 3"
         rows.append([_note_panel(doc.get("file", ""), note)])
+    return _document(rows, doc.get("file", ""), skipped)
+
+
+def object_panels(name: str, o: dict, objects: dict) -> list[Panel]:
+    """The row of panels of one object (empty when it has no picture); ``objects`` holds the
+    other objects of its document (the lattice of a cone, the cones of a morphism)."""
+    kind = o.get("kind")
+    if kind == "cone":
+        lat = objects.get(o.get("lattice"), {})
+        basis = lat.get("basis") if lat.get("kind") == "lattice" and "dual_of" not in lat else None
+        return cone_panels(name, o, basis)
+    if kind == "morphism":
+        return morphism_panels(name, o, objects)
+    if kind == "fan":
+        lat = objects.get(o.get("lattice"), {})
+        return fan_panels(name, o, standard=("basis" not in lat if lat.get("kind") == "lattice"
+                                             else str(o.get("lattice", "")).startswith("Z^")))
+    if kind == "polytope":
+        from .polytope import svg_panels
+        return svg_panels(name, o, Panel, PANEL, MARGIN, _f)
+    return []
+
+
+def render_object(doc: dict, name: str) -> str | None:
+    """The picture of the object ``name`` of ``doc`` alone, or None when it has none (the
+    Python API's ``_repr_svg_``)."""
+    o = doc.get("objects", {}).get(name)
+    panels = object_panels(name, o, doc["objects"]) if o is not None else []
+    return _document([panels], name, []) if panels else None
+
+
+def _document(rows: list[list[Panel]], title: str, skipped: list[str]) -> str:
     width = max(len(r) for r in rows) * (PANEL + GAP) + GAP
     height = len(rows) * (PANEL + TITLE + GAP) + GAP + (20 if skipped else 0)
     parts = [f'<svg xmlns="http://www.w3.org/2000/svg" width="{width}" height="{height}" '
              f'viewBox="0 0 {width} {height}" font-family="sans-serif" font-size="11">',
-             f"<title>{escape(str(doc.get('file', '')))}</title>",
+             f"<title>{escape(str(title))}</title>",
              f"<style>{STYLE}</style>",
              f'<rect x="0" y="0" width="{width}" height="{height}" fill="white"/>']
     y = GAP

@@ -28,6 +28,7 @@ from ..syntax.text import LineIndex
 from . import values as V
 from .diagnostics import Diagnostic, EvalError, Fix, Related, Sink, shifted, sort_key
 from .engine import Engine
+from . import imports as I
 from .forms import budget_advice, fan_cone_label, fmt_number, fmt_vec, violation_message  # noqa: F401 (fmt_* also used by facts)
 from .properties import check_expect
 
@@ -64,8 +65,12 @@ class Ref:
 
 
 class Analysis:
-    def __init__(self, text: str, engine: Engine | None = None):
+    def __init__(self, text: str, engine: Engine | None = None, resolver=None):
+        """``resolver(path)``: the :class:`~conelang.semantics.imports.Resolved` file (or an
+        :class:`~conelang.semantics.imports.ImportFailure`) that a ``use "path"`` names; without
+        one, every ``use`` statement is an error."""
         self.text = text
+        self.resolver = resolver
         self.index = LineIndex(text)
         self.module = parse(text)
         self.engine = engine or Engine()
@@ -77,6 +82,9 @@ class Analysis:
         self.unparsed = {err.defines for err in self.module.errors if err.defines}
         self.defs: dict[str, A.Definition] = {}
         self.expects: list[A.Expect] = []
+        self.uses: list[A.UseStmt] = []
+        self.used_files: dict[A.UseStmt, I.Resolved] = {}   # the files the use statements name
+        self._blind = False          # a `use` of every name failed: unknown names are not reported
         self.refs: list[Ref] = []
         self.deps: dict[str, set[str]] = {}
         self._used: dict[str, list[str]] = {}       # definition -> every name its statement uses
@@ -93,16 +101,47 @@ class Analysis:
         for st in self.module.statements:
             if isinstance(st, A.Expect):
                 self.expects.append(st)
-                continue
-            name = st.name.text
-            if name in self.defs:
-                first = self.defs[name]
-                line = self.index.position(first.name.span[0])[0] + 1
-                self.sink.error(st.name.span, "duplicate-name",
-                                f"'{name}' is already defined on line {line}",
-                                related=(Related(first.name.span, f"first definition of '{name}'"),))
-                continue
+            elif isinstance(st, A.UseStmt):
+                self.uses.append(st)
+                for entry in self._use_file(st):
+                    self._define(entry)
+            else:
+                self._define(st)
+
+    def _define(self, st) -> None:
+        name = st.name.text
+        first = self.defs.get(name)
+        if first is None:
             self.defs[name] = st
+            return
+        if isinstance(first, I.Imported) or isinstance(st, I.Imported):
+            if (isinstance(first, I.Imported) and isinstance(st, I.Imported)
+                    and (first.source_uri, first.source_name) == (st.source_uri, st.source_name)):
+                return                   # the same definition brought in twice
+            self.sink.error(st.name.span, "import-clash", I.clash_message(name, first, st),
+                            related=(Related(first.name.span, f"'{name}' is first {I._what(first)} here"),))
+            return
+        line = self.index.position(first.name.span[0])[0] + 1
+        self.sink.error(st.name.span, "duplicate-name",
+                        f"'{name}' is already defined on line {line}",
+                        related=(Related(first.name.span, f"first definition of '{name}'"),))
+
+    def _use_file(self, st: A.UseStmt) -> list:
+        """The entries a ``use`` statement brings in (reporting what goes wrong on its path)."""
+        if self.resolver is None:
+            got = I.ImportFailure("import-not-found",
+                                  f"cannot read \"{st.path}\" here: other files are only read for a file on disk")
+        else:
+            got = self.resolver(st.path)
+        if isinstance(got, I.ImportFailure):
+            self.sink.error(st.path_span, got.code, got.message)
+            if st.items is None:
+                self._blind = True
+            else:
+                self.unparsed.update(item.local.text for item in st.items)
+            return []
+        self.used_files[st] = got
+        return I.imported_entries(self, st, got)
 
     def kind_of(self, name: str) -> str | None:
         st = self.defs.get(name)
@@ -113,7 +152,7 @@ class Analysis:
             self._used.setdefault(owner, []).append(name.text)
         target = name.text if name.text in self.defs else None
         self.refs.append(Ref(name, expected, target, owner))
-        if target is None and name.text in self.unparsed:
+        if target is None and (name.text in self.unparsed or self._blind):
             return
         if target is None:
             close = difflib.get_close_matches(name.text, [n for n in self.defs
@@ -175,6 +214,8 @@ class Analysis:
 
     def _resolve(self) -> None:
         for st in self.module.statements:
+            if isinstance(st, A.UseStmt):
+                continue
             owner = None if isinstance(st, A.Expect) else st.name.text
             if owner is not None and self.defs.get(owner) is not st:
                 owner = None  # a duplicate: its uses are still resolved, but it defines nothing
@@ -273,6 +314,13 @@ class Analysis:
         st = self.defs.get(name)
         if st is None or name in self.in_cycle or name in self._evaluating:
             return None
+        if isinstance(st, I.Imported):
+            val = st.source.value(st.source_name)
+            if val is None:
+                self.sink.warning(st.name.span, "import-has-errors",
+                                  f"'{st.source_name}' has errors in {st.source_label} (see the diagnostics of that file)")
+            self._values[name] = val
+            return val
         self._evaluating.add(name)
         try:
             val = self._evaluate_remembered(st)
@@ -859,7 +907,11 @@ class Analysis:
     def node_at(self, offset: int):
         """The name use or definition name at ``offset`` (for hover, definition, rename)."""
         for st in self.module.statements:
-            if not isinstance(st, A.Expect) and st.name.span[0] <= offset <= st.name.span[1]:
+            if A.is_definition(st) and st.name.span[0] <= offset <= st.name.span[1]:
+                return ("def", st.name.text, st.name.span)
+        for st in self.defs.values():
+            if isinstance(st, I.Imported) and st.name.span != st.use.path_span \
+                    and st.name.span[0] <= offset <= st.name.span[1]:
                 return ("def", st.name.text, st.name.span)
         for ref in self.refs:
             if ref.name.span[0] <= offset <= ref.name.span[1]:

@@ -16,6 +16,7 @@ from . import values as V
 from .engine import NotAvailable, NotPointed
 from .properties import group_string
 from .engine import guard as _guard
+from .imports import Imported
 from .forms import jnum, jvec  # noqa: F401 (also used by the renderers' callers)
 
 
@@ -27,6 +28,9 @@ def object_facts(analysis, name: str, heavy: bool = True, equations: bool = True
     """The facts of the definition ``name`` (None when it has errors).  ``heavy=False`` leaves
     out everything that may be slow; ``equations=False`` leaves out only the binomial equations
     of a cone's variety (the editor shows the rest first)."""
+    entry = analysis.defs.get(name)
+    if isinstance(entry, Imported):          # the facts of the file that defines it
+        return object_facts(entry.source, entry.source_name, heavy, equations)
     value = analysis.value(name)
     if value is None:
         return None

@@ -355,10 +355,38 @@ class FanOfPolytope:
     kind = "fan"
 
 
+@dataclass(frozen=True)
+class UseItem:
+    """``wedge`` or ``wedge as w`` in the list of a ``use`` statement."""
+    name: Name                   # the name in the other file
+    alias: Name | None           # the local name, when renamed
+    span: Span
+
+    @property
+    def local(self) -> Name:
+        return self.alias or self.name
+
+
+@dataclass(frozen=True)
+class UseStmt:
+    """``use "path.cone"`` (every public name) or ``use "path.cone" (a, b as c)``."""
+    keyword: Name
+    path: str                    # as written between the quotes
+    path_span: Span              # the quoted string, quotes included
+    items: tuple[UseItem, ...] | None     # None: every public name of the file
+    span: Span
+    kind = "use"
+
+
 Definition = Union[LatticeStmt, ConeDef, ConeLet, MapStmt, MorphismDef, MorphismCompose,
                    CharactersStmt, FanDef, FanResolve, PolytopeDef, PolytopeLet, FanOfPolytope,
                    FanSubdivide]
-Statement = Union[Definition, Expect]
+Statement = Union[Definition, Expect, UseStmt]
+
+
+def is_definition(st) -> bool:
+    """True for a statement that defines a name (not an ``expect`` or a ``use``)."""
+    return not isinstance(st, (Expect, UseStmt))
 
 
 @dataclass(frozen=True)

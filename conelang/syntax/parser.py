@@ -22,11 +22,11 @@ from lark.exceptions import UnexpectedCharacters, UnexpectedInput, UnexpectedTok
 from . import ast as A
 from .text import closest_word
 
-STATEMENT_KEYWORDS = ("lattice", "cone", "map", "morphism", "characters", "fan", "polytope", "expect")
+STATEMENT_KEYWORDS = ("lattice", "cone", "map", "morphism", "characters", "fan", "polytope", "expect", "use")
 KEYWORDS = STATEMENT_KEYWORDS + ("dual", "face", "at", "in", "of", "not", "rays", "halfspaces",
                                  "equations", "images", "rows", "cones", "resolve", "crepant", "after",
                                  "vertices", "polar", "hull", "over", "grading",
-                                 "star", "refine", "by")
+                                 "star", "refine", "by", "as")
 
 _SCAN = re.compile(r'#[^\n]*|"[^"\n]*"?|//[^\n]*|[A-Za-z_][A-Za-z0-9_]*')
 # a word that starts a line and is followed by a name, as a statement keyword is: when it is a
@@ -221,7 +221,7 @@ def _defined_name(piece: str, keyword: str | None = None) -> str | None:
     if m is None or m.group(2) in KEYWORDS:
         return None
     kw = keyword or m.group(1)
-    return m.group(2) if kw in STATEMENT_KEYWORDS and kw != "expect" else None
+    return m.group(2) if kw in STATEMENT_KEYWORDS and kw not in ("expect", "use") else None
 
 
 def _not_a_statement(piece: str, base: int) -> A.SyntaxError_ | None:
@@ -522,6 +522,18 @@ class _Builder:
                 tok = value_tree.children[0]
                 value = A.StringValue(str(tok)[1:-1], self.span(tok))
             return A.Expect(kw, self.name(ch[1]), False, self.name(ch[2]), value, None, sp)
+        if kind == "use_stmt":
+            tok = ch[1]
+            items = None
+            if len(ch) > 2 and ch[2] is not None:
+                items = []
+                for it in ch[2:]:
+                    if not isinstance(it, Tree):
+                        continue
+                    names = [self.name(c) for c in it.children if isinstance(c, Tree)]
+                    items.append(A.UseItem(names[0], names[1] if len(names) > 1 else None, self.span(it)))
+                items = tuple(items)
+            return A.UseStmt(kw, str(tok)[1:-1], self.span(tok), items, sp)
         if kind == "expect_equal":
             return A.Expect(kw, self.name(ch[1]), False, None, None, self.cone_expr(ch[3]), sp)
         raise _BuildError(f"unexpected statement {kind}", sp)
