@@ -20,6 +20,7 @@ from .geometry.budget import Cancelled
 from .semantics import values as V
 from .semantics.diagnostics import Diagnostic
 from .semantics.forms import fmt_vec as _fmt
+from .semantics.imports import Imported
 from .syntax import ast as A
 from .syntax.format import KEYWORDS, SECTION_KEYWORDS, STATEMENT_KEYWORDS, tokenize
 
@@ -259,6 +260,27 @@ def _cone_expr_items(a, toks: list[str]) -> list[Suggestion]:
     if len(toks) >= 2 and toks[-2] == "face":
         return _kw("at", sort="0")
     return []
+
+
+_USE_PATH = re.compile(r'^\s*use\s+"([^"]*)$')
+
+
+def use_path_prefix(text: str, offset: int) -> tuple[str, int] | None:
+    """When ``offset`` is inside the quotes of a ``use`` statement: the path typed so far and
+    the offset where it starts (just after the opening quote); else None.  The listing of
+    the files that may follow is I/O (see ``conelang.project.FileLoader.cone_paths``).
+
+    >>> use_path_prefix('lattice N = Z^2\\nuse "sub/sh', 27)
+    ('sub/sh', 21)
+    >>> use_path_prefix('use "a.cone" (N)', 14) is None
+    True
+    """
+    offset = max(0, min(offset, len(text)))
+    line_start = text.rfind("\n", 0, offset) + 1
+    m = _USE_PATH.match(text[line_start:offset])
+    if m is None:
+        return None
+    return m.group(1), line_start + m.start(1)
 
 
 def completions(a, offset: int) -> list[Suggestion]:
@@ -551,7 +573,7 @@ def semantic_tokens(a) -> list[tuple[int, int, str, tuple[str, ...]]]:
         if A.is_definition(st):
             kinds[st.name.span[0]] = (st.kind, True)
     for st in a.defs.values():
-        if not A.is_definition(st) and st.name.span != st.use.path_span:   # a name in a use list
+        if isinstance(st, Imported) and st.name.span != st.use.path_span:   # a name in a use list
             kinds[st.name.span[0]] = (st.kind, True)
     for ref in a.refs:
         if ref.target is not None and a.kind_of(ref.target):
@@ -702,14 +724,12 @@ def rename_name(a, old: str, new_name: str) -> list[Edit]:
     if new_name in a.defs:
         other = a.defs[new_name]
         line = a.index.position(other.name.span[0])[0] + 1
-        how = "already defined" if A.is_definition(other) else "already used from another file"
+        how = "already used from another file" if isinstance(other, Imported) else "already defined"
         raise RenameError(f"'{new_name}' is {how} on line {line}")
     entry = a.defs[old]
     spans = set()
-    if A.is_definition(entry):
-        spans.add(entry.name.span)
-    elif entry.name.span != entry.use.path_span:        # written in the list of a use statement
-        spans.add(entry.name.span)
+    if not isinstance(entry, Imported) or entry.name.span != entry.use.path_span:
+        spans.add(entry.name.span)        # the definition, or the name in the list of a use statement
     for st in a.module.statements:
         if A.is_definition(st) and st.name.text == old:
             spans.add(st.name.span)          # duplicates of the definition too

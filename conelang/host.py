@@ -55,13 +55,15 @@ class AnalysisHost:
 
     # -- files ---------------------------------------------------------------------------
     def apply_change(self, uri: str, text: str) -> None:
-        if self.texts.get(uri) != text:
-            self.texts[uri] = text
+        before = self.texts.get(uri, self._disk.get(uri))
+        self.texts[uri] = text
+        if before != text:
             self._drop(uri)
 
     def remove(self, uri: str) -> None:
         """Close ``uri``: from now on the files that use it read it from disk."""
         if self.texts.pop(uri, None) is not None:
+            self._disk.pop(uri, None)        # read before it was opened: the disk may have changed since
             self._drop(uri)
 
     def invalidate(self, uri: str) -> None:
@@ -98,10 +100,50 @@ class AnalysisHost:
             todo.extend(self._importers.pop(u, ()))
             todo.extend(v for v, (_, targets) in list(self._graph.items()) if u in targets)
 
+    def forget_files(self) -> None:
+        """Forget every file read by the loader and every analysis (the open texts stay), e.g.
+        after the loader's rules changed (``allow_outside_root``)."""
+        for cache in (self._disk, self._analyses, self._indexes, self._graph, self._importers):
+            cache.clear()
+
+    def used_files(self, uri: str) -> list[str]:
+        """The files ``uri`` uses, directly or through other files (not ``uri`` itself),
+        nearest first; a file that cannot be read is listed, the files it would use are not."""
+        seen, order, todo = {uri}, [], [uri]
+        while todo:
+            nxt = []
+            for u in todo:
+                for v in self._uses_of(u):
+                    if v not in seen:
+                        seen.add(v)
+                        order.append(v)
+                        nxt.append(v)
+            todo = nxt
+        return order
+
+    def source(self, uri: str) -> str | None:
+        """The text the analysis of ``uri`` reads: the open one, else the loader's (None when
+        it cannot be read)."""
+        if uri in self.texts:
+            return self.texts[uri]
+        if self.loader is None:
+            return None
+        got = self._source(uri)
+        return got if isinstance(got, str) else None
+
+    def use_path_completions(self, uri: str, offset: int):
+        """Inside the quotes of a ``use`` statement: (offset where the path starts, the paths
+        the loader offers there); else None."""
+        hit = editor.use_path_prefix(self.text(uri), offset)
+        if hit is None:
+            return None
+        prefix, start = hit
+        return start, (self.loader.cone_paths(uri, prefix) if self.loader is not None else [])
+
     def dependents(self, uri: str, candidates=()) -> list[str]:
         """The files that use ``uri``, directly or through other files: among the files this host
         knows and ``candidates`` (say, every ``.cone`` file of the editor's workspace)."""
-        known = set(self.texts) | set(self._graph) | set(candidates)
+        known = set(self.texts) | set(self._graph) | set(self._analyses) | set(candidates)
         out = [u for u in sorted(known) if u != uri and self._path_between(u, uri) is not None]
         return out
 
@@ -186,7 +228,11 @@ class AnalysisHost:
         self._analyses.pop(uri, None)
 
     def text(self, uri: str) -> str:
-        return self.texts.get(uri, "")
+        """The text of ``uri`` the host analyses: the open one, else the loader's ("" when
+        there is none)."""
+        if uri in self.texts:
+            return self.texts[uri]
+        return self.source(uri) or ""
 
     def line_index(self, uri: str) -> LineIndex:
         """Lines of the current text of ``uri``, without analysing it (offsets ↔ positions).

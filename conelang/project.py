@@ -30,6 +30,7 @@ from urllib.request import pathname2url
 from .semantics.imports import ImportFailure
 
 MARKERS = (".git", "conelang.toml")
+SKIPPED_FOLDERS = ("node_modules", "__pycache__")
 
 
 def uri_to_path(uri: str) -> str | None:
@@ -92,10 +93,62 @@ class FileLoader:
             real = os.path.realpath(target)
             if os.path.commonpath([root, real]) != root:
                 return ImportFailure("import-outside-root",
-                                     f"\"{path}\" is outside the project root {root} (the folder with .git "
-                                     f"or conelang.toml); move the file into the project, or allow it with "
-                                     f"--allow-outside-root")
+                                     f"\"{path}\" is outside the project root (the nearest folder above "
+                                     f"this file with .git or conelang.toml); move the file into the project, "
+                                     f"or allow it with --allow-outside-root")
         return path_to_uri(target, importer_uri)
+
+    def cone_paths(self, importer_uri: str, prefix: str, limit: int = 500) -> list[str]:
+        """What may follow ``prefix`` inside the quotes of a ``use`` statement in
+        ``importer_uri``: paths (``prefix``'s folder part kept) of the ``.cone`` files and of
+        the folders (ending with ``/``) in the folder ``prefix`` points into, never outside the
+        project root unless allowed; ``../`` when the parent folder is allowed.  Hidden folders,
+        ``node_modules`` and ``__pycache__`` are left out, and so is the importing file.
+
+        >>> import tempfile, pathlib
+        >>> d = pathlib.Path(tempfile.mkdtemp()); (d / "conelang.toml").write_text("")
+        0
+        >>> (d / "sub").mkdir(); (d / "sub" / "b.cone").write_text(""); (d / "a.cone").write_text("")
+        0
+        0
+        >>> FileLoader().cone_paths(str(d / "a.cone"), ""), FileLoader().cone_paths(str(d / "a.cone"), "sub/")
+        (['sub/'], ['sub/b.cone'])
+        >>> FileLoader().cone_paths(str(d / "sub" / "b.cone"), "")
+        ['../']
+        """
+        base = uri_to_path(importer_uri)
+        if base is None:
+            return []
+        head = prefix[:prefix.rfind("/") + 1]
+        here = os.path.dirname(os.path.abspath(base))
+        folder = os.path.normpath(os.path.join(here, head))
+        root = None if self.allow_outside_root else self.project_root(base)
+
+        def allowed(p: str) -> bool:
+            return root is None or os.path.commonpath([root, os.path.realpath(p)]) == root
+
+        if not allowed(folder) or not os.path.isdir(folder):
+            return []
+        out = []
+        if all(part == ".." for part in head.split("/")[:-1]) and allowed(os.path.dirname(folder)):
+            out.append(head + "../")
+        try:
+            entries = sorted(os.scandir(folder), key=lambda e: e.name)
+        except OSError:
+            return out
+        me = os.path.realpath(base)
+        for e in entries:
+            if len(out) >= limit:
+                break
+            try:
+                if e.is_dir():
+                    if not e.name.startswith(".") and e.name not in SKIPPED_FOLDERS and allowed(e.path):
+                        out.append(head + e.name + "/")
+                elif e.name.endswith(".cone") and allowed(e.path) and os.path.realpath(e.path) != me:
+                    out.append(head + e.name)
+            except OSError:
+                continue
+        return out
 
     def load(self, uri: str, path: str):
         """The text of ``uri`` (written ``path`` in a use statement), or an :class:`ImportFailure`."""

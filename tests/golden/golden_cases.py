@@ -78,8 +78,9 @@ class Probe:
 
     def __init__(self, path: Path):
         from conelang.host import AnalysisHost
-        self.uri = str(path.relative_to(ROOT))
-        self.host = AnalysisHost(BUDGET)
+        from conelang.project import FileLoader
+        self.uri = str(path)                 # absolute: `use` paths are relative to the file
+        self.host = AnalysisHost(BUDGET, loader=FileLoader())
         self.host.apply_change(self.uri, path.read_text(encoding="utf-8"))
         self.a = self.host.analysis(self.uri)
         self.text = self.a.text
@@ -99,7 +100,7 @@ class Probe:
     # offsets that the cases probe
     def definition_names(self):
         from conelang.syntax import ast as A
-        return [st.name for st in self.a.module.statements if not isinstance(st, A.Expect)]
+        return [st.name for st in self.a.module.statements if A.is_definition(st)]
 
     def vectors(self, per_section: int = 3):
         from conelang.syntax import ast as A
