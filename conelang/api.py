@@ -314,12 +314,16 @@ class Document:
 
 
 # ---------------------------------------------------------------------------------------------
-# loading: the one place where a host is made (the file loader of the import statement will be
-# given to the host here)
+# loading: the one place where a host is made
 
-def _open(uri: str, text: str, budget: int | None) -> AnalysisHost:
-    """A host that knows ``text`` as ``uri``."""
-    host = AnalysisHost(budget)
+def _open(uri: str, text: str, budget: int | None, files: bool, allow_outside_root: bool) -> AnalysisHost:
+    """A host that knows ``text`` as ``uri``; with ``files``, ``use`` statements read other
+    files through the loader of the command line (:class:`conelang.project.FileLoader`)."""
+    loader = None
+    if files:
+        from .project import FileLoader
+        loader = FileLoader(allow_outside_root)
+    host = AnalysisHost(budget, loader=loader)
     host.apply_change(uri, text)
     return host
 
@@ -332,15 +336,17 @@ def _check_budget(budget: Any) -> int | None:
     return int(budget)
 
 
-def _document(text: str, uri: str, label: str, budget: Any) -> Document:
-    budget = _check_budget(budget)
-    host = _open(uri, text, budget)
+def _document(text: str, uri: str, label: str, budget: Any, files: bool = False,
+              allow_outside_root: bool = False) -> Document:
+    host = _open(uri, text, _check_budget(budget), files, allow_outside_root)
     return Document(host.document(uri, label=label), text, uri)
 
 
 def loads(text: str, name: str = "<string>", *, budget: int | None = DEFAULT_BUDGET) -> Document:
     """Analyse ``.cone`` source text.  ``name`` is the document's ``file``; ``budget`` the
-    work budget of each heavy computation (None: no limit), as ``conelang show --budget``."""
+    work budget of each heavy computation (None: no limit), as ``conelang show --budget``.
+    The text is not a file, so a ``use`` statement in it cannot be resolved (it is an error
+    diagnostic); :func:`load` a file for that."""
     if not isinstance(text, str):
         raise ConelangError(f"loads() takes the text of a .cone file as a str, not {type(text).__name__}"
                             + (" (decode the bytes first, or use load(path))" if isinstance(text, bytes) else ""))
@@ -349,9 +355,12 @@ def loads(text: str, name: str = "<string>", *, budget: int | None = DEFAULT_BUD
     return _document(text, name, name, budget)
 
 
-def load(path: str | os.PathLike, *, budget: int | None = DEFAULT_BUDGET) -> Document:
-    """Read and analyse a ``.cone`` file (UTF-8).  The document's ``file`` is the path as
-    given, as for ``conelang show``."""
+def load(path: str | os.PathLike, *, budget: int | None = DEFAULT_BUDGET,
+         allow_outside_root: bool = False) -> Document:
+    """Read and analyse a ``.cone`` file (UTF-8), with the files its ``use`` statements name
+    (inside the project root unless ``allow_outside_root``, as ``--allow-outside-root``).  The
+    document's ``file`` is the path as given, as for ``conelang show``; its ``uri`` the
+    ``file://`` URI of the absolute path."""
     if not isinstance(path, (str, os.PathLike)):
         raise ConelangError(f"load() takes a path (str or pathlib.Path), not {type(path).__name__}"
                             + ("; for source text use loads()" if isinstance(path, bytes) else ""))
@@ -366,7 +375,8 @@ def load(path: str | os.PathLike, *, budget: int | None = DEFAULT_BUDGET) -> Doc
         raise ConelangError(f"{p}: not UTF-8 text ({exc.reason} at byte {exc.start})") from None
     except OSError as exc:
         raise OSError(f"{p}: cannot read ({exc.strerror})") from None
-    return _document(text, p.resolve().as_uri(), str(p), budget)
+    return _document(text, p.resolve().as_uri(), str(p), budget, files=True,
+                     allow_outside_root=bool(allow_outside_root))
 
 
 # ---------------------------------------------------------------------------------------------
