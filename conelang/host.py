@@ -206,6 +206,9 @@ class AnalysisHost:
             target = self.loader.locate(uri, path)
             if isinstance(target, ImportFailure):
                 return target
+            # recorded before the checks below: a file that is missing or part of a cycle now
+            # may be readable later, and then this analysis must be made again
+            self._importers.setdefault(target, set()).add(uri)
             chain = self._path_between(target, uri)
             if chain is not None:
                 names = [self._label(u) for u in [uri] + chain]
@@ -213,7 +216,6 @@ class AnalysisHost:
             text = self._source(target, path)
             if isinstance(text, ImportFailure):
                 return text
-            self._importers.setdefault(target, set()).add(uri)
             return Resolved(target, path, self.analysis(target))
         return resolve
 
@@ -313,11 +315,28 @@ class AnalysisHost:
                 if isinstance(e, Imported) and (e.source_uri, e.source_name) == (origin_uri, name):
                     yield u, a, local, e
 
+    def _use_target(self, uri: str, offset: int):
+        """On the path of a use statement: (the file it names, (0, 0)); on a name of its list
+        (``wedge`` in ``(wedge as w)``): (that file, the span of the definition); else None."""
+        a = self.analysis(uri)
+        for st in a.uses:
+            got = a.used_files.get(st)
+            if got is None or not st.span[0] <= offset <= st.span[1]:
+                continue
+            if st.path_span[0] <= offset <= st.path_span[1]:
+                return got.uri, (0, 0)
+            for item in st.items or ():
+                entry = got.analysis.defs.get(item.name.text)
+                if item.name.span[0] <= offset <= item.name.span[1] and entry is not None and A.is_definition(entry):
+                    return got.uri, entry.name.span
+        return None
+
     def definition_location(self, uri: str, offset: int):
-        """(uri, span) of the definition of the name under ``offset``, in whichever file."""
+        """(uri, span) of the definition of the name under ``offset``, in whichever file (on
+        the path of a use statement: the start of the file it names)."""
         got = self._origin(uri, offset)
         if got is None:
-            return None
+            return self._use_target(uri, offset)
         origin_uri, name = got
         return origin_uri, self.analysis(origin_uri).defs[name].name.span
 

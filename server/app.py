@@ -11,7 +11,17 @@ Settings (``initializationOptions`` of the client, all optional)::
     {"budget": 20000000,        # work budget per heavy computation, or "none"
      "debounce": 0.15,          # seconds to wait after an edit before checking the file
      "hoverWait": 0.8,          # seconds a hover waits for the worker before saying "computing…"
-     "diagnosticsWait": 0.3}    # seconds the cheap diagnostics wait for the full ones
+     "diagnosticsWait": 0.3,    # seconds the cheap diagnostics wait for the full ones
+     "allowOutsideRoot": false} # `use` may name files outside the project root
+
+The same settings may come later with ``workspace/didChangeConfiguration`` (under a
+``conelang`` key, or at the top level).
+
+Projects of many files: the host reads the files ``use`` statements name through a
+:class:`conelang.project.FileLoader` (open documents win over the disk); the worker gets the
+texts of the files a job's file uses with every job (see :mod:`conelang.server.worker`); the
+workspace's ``.cone`` files, and the files to check again when one changes, are in
+:mod:`conelang.server.workspace`.
 """
 from __future__ import annotations
 
@@ -35,10 +45,12 @@ import conelang
 from conelang import editor
 from conelang.geometry import budget as gbudget
 from conelang.host import AnalysisHost
+from conelang.project import FileLoader
 from conelang.syntax import ast as A
 
 from .convert import Positions
 from .worker import HeavyWorker, JobCancelled, WorkerFailed
+from .workspace import FILE_OPERATIONS, Workspace
 
 log = logging.getLogger("conelang.server")
 
@@ -87,7 +99,9 @@ class ConeServer(LanguageServer):
     def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT):
         super().__init__("conelang", conelang.__version__, protocol_cls=ConeProtocol)
         self.budget_limit = budget_limit
-        self.host = AnalysisHost(budget_limit)
+        self.loader = FileLoader()
+        self.host = AnalysisHost(budget_limit, loader=self.loader)
+        self.files = Workspace(self)
         self.worker: HeavyWorker | None = None
         self.debounce = 0.15
         self.hover_wait = 0.8
@@ -96,12 +110,22 @@ class ConeServer(LanguageServer):
         self.tasks: dict[str, asyncio.Task] = {}
         self.cache: OrderedDict = OrderedDict()
         self.last_full: dict[str, tuple[str, list, list]] = {}   # uri -> (text, diagnostics, expect spans)
-        self.workspace_files: dict[str, tuple[float, int, list]] = {}
 
     # -- helpers ---------------------------------------------------------------------------
-    def configure(self, options) -> None:
+    def configure(self, options) -> bool:
+        """Apply the settings in ``options``; True when the rules for reading other files
+        changed (then every file must be checked again)."""
         if not isinstance(options, dict):
-            return
+            return False
+        changed = False
+        if "allowOutsideRoot" in options:
+            allow = bool(options["allowOutsideRoot"])
+            if allow != self.loader.allow_outside_root:
+                self.loader.allow_outside_root = allow
+                self.host.forget_files()
+                if self.worker is not None:
+                    self.worker.allow_outside_root = allow
+                changed = True
         if "budget" in options:
             b = options["budget"]
             self.budget_limit = None if b in (None, "none", "unlimited") else int(b)
@@ -110,10 +134,11 @@ class ConeServer(LanguageServer):
                           ("diagnosticsWait", "diagnostics_wait")):
             if key in options:
                 setattr(self, attr, max(0.0, float(options[key])))
+        return changed
 
     def start_worker(self) -> None:
         if self.worker is None:
-            self.worker = HeavyWorker(self.budget_limit)
+            self.worker = HeavyWorker(self.budget_limit, allow_outside_root=self.loader.allow_outside_root)
             self.worker.start()
             self.worker.submit("ping", "", "", key="")
 
@@ -141,19 +166,64 @@ class ConeServer(LanguageServer):
         while len(self.cache) > 512:
             self.cache.popitem(last=False)
 
+    def used_texts(self, uri: str) -> dict[str, str | None]:
+        """The texts of the files ``uri`` uses (directly or through others), as the host sees
+        them: what a worker job about ``uri`` needs besides its own text."""
+        return {u: self.host.source(u) for u in self.host.used_files(uri)}
+
+    def state_key(self, uri: str, files: dict | None = None) -> str:
+        """The fingerprint of what the answers about ``uri`` depend on: its text and the texts
+        of the files it uses."""
+        files = self.used_texts(uri) if files is None else files
+        parts = [self.host.text(uri)]
+        for u in sorted(files):
+            parts += [u, "\x00" if files[u] is None else files[u]]
+        return fingerprint("\x01".join(parts)) if len(parts) > 1 else fingerprint(parts[0])
+
     def heavy(self, kind: str, uri: str, *args, interactive: bool = False):
-        """Submit a heavy job for the current text of ``uri``: (key, asyncio future)."""
+        """Submit a heavy job for the current text of ``uri`` (and of the files it uses):
+        (key, asyncio future)."""
         self.start_worker()
         text = self.host.text(uri)
-        key = fingerprint(text)
-        fut = asyncio.wrap_future(self.worker.submit(kind, uri, text, *args, key=key, interactive=interactive))
+        files = self.used_texts(uri)
+        key = self.state_key(uri, files)
+        fut = asyncio.wrap_future(self.worker.submit(kind, uri, text, *args, key=key, interactive=interactive,
+                                                     files=files))
         fut.add_done_callback(_consume)       # a result nobody waits for any more is not an error
         return key, fut
 
+    def forget_closed(self, uri: str) -> None:
+        """``uri`` is not open and its diagnostics are no longer wanted (closed or deleted)."""
+        task = self.tasks.pop(uri, None)
+        if task is not None:
+            task.cancel()
+        self.last_full.pop(uri, None)
+        self.text_document_publish_diagnostics(T.PublishDiagnosticsParams(uri=uri, diagnostics=[]))
+
+    def locations(self, hits) -> list[T.Location]:
+        """LSP locations of (uri, span) pairs, each in its own file."""
+        out = []
+        for u, span in hits:
+            out.append(T.Location(uri=u, range=self.positions(u).lsp_range(span)))
+        return out
+
+    def workspace_edit(self, edits: dict[str, list]) -> T.WorkspaceEdit:
+        """Edits per file as a WorkspaceEdit: ``documentChanges`` (with the versions of the
+        open files) when the client takes them, else ``changes``."""
+        per_file = {u: [T.TextEdit(range=self.positions(u).lsp_range(e.span), new_text=e.new_text) for e in es]
+                    for u, es in edits.items()}
+        if _capability(self, "workspace", "workspace_edit", "document_changes"):
+            return T.WorkspaceEdit(document_changes=[
+                T.TextDocumentEdit(text_document=T.OptionalVersionedTextDocumentIdentifier(
+                    uri=u, version=self.versions.get(u) if u in self.host.texts else None), edits=es)
+                for u, es in per_file.items()])
+        return T.WorkspaceEdit(changes=per_file)
+
     def ensure_text(self, uri: str) -> None:
-        """Make sure the host has the text of ``uri`` (opened documents always do; a request
-        about a file that was never opened reads it from disk when possible)."""
-        if uri in self.host.texts:
+        """Make sure the host has the text of ``uri`` (opened documents always do; a file that
+        is not open is read by the host's loader; anything else, e.g. an unsaved buffer never
+        opened, through the workspace when possible)."""
+        if uri in self.host.texts or self.host.source(uri) is not None:
             return
         try:
             doc = self.workspace.get_text_document(uri)
@@ -197,12 +267,12 @@ class ConeServer(LanguageServer):
             if delay:
                 await asyncio.sleep(delay)
             text = self.host.text(uri)
-            key = fingerprint(text)
+            key = self.state_key(uri)
             cached = self.cache_get(("diagnostics", key))
             if cached is not None:
                 self.publish(uri, cached)
                 return
-            _, fut = self.heavy("diagnostics", uri)
+            key, fut = self.heavy("diagnostics", uri)
             # the first check of a file: its worker analysis starts cold and is slow, so the
             # cheap part is done here meanwhile, ready when diagnostics_wait runs out
             cheap = self.host.diagnostics(uri, expectations=False) if uri not in self.last_full else None
@@ -213,7 +283,7 @@ class ConeServer(LanguageServer):
                     cheap = self.host.diagnostics(uri, expectations=False)
                 self.publish(uri, cheap + self.carried_over(uri, cheap))
                 full = await asyncio.shield(fut)
-            if self.host.text(uri) != text:
+            if self.state_key(uri) != key:
                 return
             self.cache_put(("diagnostics", key), full)
             self.publish(uri, full)
@@ -334,8 +404,53 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
 
     @ls.feature(T.INITIALIZED)
     @safe()
-    def initialized(ls: ConeServer, params: T.InitializedParams):
+    async def initialized(ls: ConeServer, params: T.InitializedParams):
+        try:
+            ls.files.scan(_folder_uris(ls))
+        except Exception:
+            log.exception("listing the workspace's files failed")
         _warm_up(ls)     # after the answer to initialize: that answer's types are then known too
+        await ls.files.register_watcher()
+
+    @ls.feature(T.WORKSPACE_DID_CHANGE_WORKSPACE_FOLDERS)
+    @safe()
+    def folders_changed(ls: ConeServer, params: T.DidChangeWorkspaceFoldersParams):
+        ls.files.scan(_folder_uris(ls))
+
+    @ls.feature(T.WORKSPACE_DID_CHANGE_CONFIGURATION)
+    @safe()
+    def configuration_changed(ls: ConeServer, params: T.DidChangeConfigurationParams):
+        settings = params.settings
+        if isinstance(settings, dict) and isinstance(settings.get("conelang"), dict):
+            settings = settings["conelang"]
+        if ls.configure(settings):
+            ls.cache.clear()
+            for uri in list(ls.host.texts) + [u for u in ls.last_full if u not in ls.host.texts]:
+                ls.schedule(uri, 0.0)
+
+    @ls.feature(T.WORKSPACE_DID_CHANGE_WATCHED_FILES)
+    @safe()
+    def watched_files_changed(ls: ConeServer, params: T.DidChangeWatchedFilesParams):
+        ls.files.on_watched_files(params)
+
+    @ls.feature(T.WORKSPACE_DID_CREATE_FILES, FILE_OPERATIONS)
+    @safe()
+    def files_created(ls: ConeServer, params: T.CreateFilesParams):
+        for f in params.files or []:
+            ls.files.on_disk(f.uri, "created")
+
+    @ls.feature(T.WORKSPACE_DID_DELETE_FILES, FILE_OPERATIONS)
+    @safe()
+    def files_deleted(ls: ConeServer, params: T.DeleteFilesParams):
+        for f in params.files or []:
+            ls.files.on_disk(f.uri, "deleted")
+
+    @ls.feature(T.WORKSPACE_DID_RENAME_FILES, FILE_OPERATIONS)
+    @safe()
+    def files_renamed(ls: ConeServer, params: T.RenameFilesParams):
+        for f in params.files or []:
+            ls.files.on_disk(f.old_uri, "deleted")
+            ls.files.on_disk(f.new_uri, "created")
 
     @ls.feature(T.SHUTDOWN)
     @safe()
@@ -356,7 +471,9 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
         uri = params.text_document.uri
         ls.versions[uri] = params.text_document.version
         ls.host.apply_change(uri, params.text_document.text)
+        ls.files.add(uri)
         ls.schedule(uri, 0.0)
+        ls.files.changed(uri)           # its open text may differ from the disk the others read
 
     @ls.feature(T.TEXT_DOCUMENT_DID_CHANGE)
     @safe()
@@ -366,8 +483,16 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
         text = ls.workspace.get_text_document(uri).source
         ls.host.apply_change(uri, text)
         if ls.worker is not None:
-            ls.worker.cancel_stale(uri, fingerprint(text))
+            ls.worker.cancel_stale(uri, ls.state_key(uri))
         ls.schedule(uri, ls.debounce)
+        ls.files.changed(uri)
+
+    @ls.feature(T.TEXT_DOCUMENT_DID_SAVE)
+    @safe()
+    def did_save(ls: ConeServer, params: T.DidSaveTextDocumentParams):
+        uri = params.text_document.uri
+        ls.host.invalidate(uri)          # the disk text is the saved one (the open text still wins)
+        ls.files.changed(uri)
 
     @ls.feature(T.TEXT_DOCUMENT_DID_CLOSE)
     @safe()
@@ -383,6 +508,7 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
         ls.versions.pop(uri, None)
         ls.last_full.pop(uri, None)
         ls.text_document_publish_diagnostics(T.PublishDiagnosticsParams(uri=uri, diagnostics=[]))
+        ls.files.changed(uri, 0.0)       # the files that use it read the disk version now
 
     # -- hover -----------------------------------------------------------------------------
     @ls.feature(T.TEXT_DOCUMENT_HOVER)
@@ -400,7 +526,7 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
         pending = ls.host.hover_pending(uri, offset)
         if pending is not None:
             name = ls.host.analysis(uri).node_at(offset)[1]
-            key = fingerprint(ls.host.text(uri))
+            key = ls.state_key(uri)
             full = ls.cache_get(("markdown", key, name))
             if full is None:
                 # the full facts, and before them (queued in front) everything but the equations
@@ -428,10 +554,8 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
     def definition(ls: ConeServer, params: T.DefinitionParams):
         uri = params.text_document.uri
         ls.ensure_text(uri)
-        span = ls.host.definition(uri, ls.offset(uri, params.position))
-        if span is None:
-            return None
-        return T.Location(uri=uri, range=ls.positions(uri).lsp_range(span))
+        hit = ls.host.definition_location(uri, ls.offset(uri, params.position))
+        return ls.locations([hit])[0] if hit is not None else None
 
     @ls.feature(T.TEXT_DOCUMENT_REFERENCES)
     @safe(list)
@@ -439,9 +563,8 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
         uri = params.text_document.uri
         ls.ensure_text(uri)
         include = params.context.include_declaration if params.context else True
-        spans = ls.host.references(uri, ls.offset(uri, params.position), include)
-        pos = ls.positions(uri)
-        return [T.Location(uri=uri, range=pos.lsp_range(s)) for s in spans]
+        return ls.locations(ls.host.references_everywhere(uri, ls.offset(uri, params.position), include,
+                                                          ls.files.candidates()))
 
     @ls.feature(T.TEXT_DOCUMENT_DOCUMENT_HIGHLIGHT)
     @safe(list)
@@ -469,12 +592,11 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
         uri = params.text_document.uri
         ls.ensure_text(uri)
         try:
-            edits = ls.host.rename(uri, ls.offset(uri, params.position), params.new_name)
+            edits = ls.host.rename_everywhere(uri, ls.offset(uri, params.position), params.new_name,
+                                              ls.files.candidates())
         except editor.RenameError as exc:
             raise JsonRpcException(str(exc), code=-32803) from None   # RequestFailed
-        pos = ls.positions(uri)
-        return T.WorkspaceEdit(changes={uri: [T.TextEdit(range=pos.lsp_range(e.span), new_text=e.new_text)
-                                              for e in edits]})
+        return ls.workspace_edit(edits)
 
     @ls.feature(T.TEXT_DOCUMENT_DOCUMENT_SYMBOL)
     @safe(list)
@@ -490,7 +612,7 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
     @safe(list)
     def workspace_symbols(ls: ConeServer, params: T.WorkspaceSymbolParams):
         out = []
-        for uri, text in ls.workspace_texts():
+        for uri, text in ls.files.texts():
             for _, s, _ in editor.workspace_symbols([(uri, text)], params.query or ""):
                 pos = Positions(_index(text), ls.encoding())
                 out.append(T.SymbolInformation(name=s.name, kind=SYMBOL_KIND.get(s.kind, T.SymbolKind.Variable),
@@ -510,13 +632,24 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
 
     # -- completion ------------------------------------------------------------------------
     @ls.feature(T.TEXT_DOCUMENT_COMPLETION,
-                T.CompletionOptions(trigger_characters=[" ", "(", ":", ">", "&", "="]))
+                T.CompletionOptions(trigger_characters=[" ", "(", ":", ">", "&", "=", '"', "/"]))
     @safe(lambda: T.CompletionList(is_incomplete=False, items=[]))
     def completion(ls: ConeServer, params: T.CompletionParams):
         uri = params.text_document.uri
         ls.ensure_text(uri)
         offset = ls.offset(uri, params.position)
+        paths = ls.host.use_path_completions(uri, offset)
+        if paths is not None:                       # inside the quotes of a use statement
+            start, found = paths
+            rng = T.Range(start=ls.positions(uri).lsp_position(start), end=params.position)
+            return T.CompletionList(is_incomplete=False, items=[
+                T.CompletionItem(label=p, kind=T.CompletionItemKind.Folder if p.endswith("/") else T.CompletionItemKind.File,
+                                 text_edit=T.TextEdit(range=rng, new_text=p), filter_text=p,
+                                 sort_text=("0" if p.endswith("/") else "1") + p)
+                for p in found])
         ctx = params.context
+        if ctx is not None and ctx.trigger_kind == T.CompletionTriggerKind.TriggerCharacter and ctx.trigger_character in ('"', "/"):
+            return T.CompletionList(is_incomplete=False, items=[])       # only paths follow these
         if ctx is not None and ctx.trigger_kind == T.CompletionTriggerKind.TriggerCharacter and ctx.trigger_character == " ":
             text = ls.host.text(uri)
             if not text[text.rfind("\n", 0, offset) + 1:offset].strip():
@@ -592,7 +725,7 @@ def create_server(budget_limit: int | None = gbudget.DEFAULT_LIMIT) -> ConeServe
     async def inlay_hints(ls: ConeServer, params: T.InlayHintParams):
         uri = params.text_document.uri
         ls.ensure_text(uri)
-        key = fingerprint(ls.host.text(uri))
+        key = ls.state_key(uri)
         hints = ls.cache_get(("inlay", key))
         if hints is None:
             _, fut = ls.heavy("inlay", uri)
@@ -660,7 +793,7 @@ async def pin_edit(ls: ConeServer, uri: str, name: str):
             continue
         except WorkerFailed:
             return None
-        if fingerprint(ls.host.text(uri)) != key:
+        if ls.state_key(uri) != key:
             continue
         if edit is None:
             return None
@@ -788,13 +921,8 @@ def _refresh_inlays(ls, fut) -> None:
         log.exception("inlay hint refresh failed")
 
 
-def _workspace_texts(ls: ConeServer, max_files: int = 2000, max_bytes: int = 1_000_000):
-    """(uri, text) of the ``.cone`` files of the workspace folders, open documents first."""
-    seen = set()
-    for uri, text in list(ls.host.texts.items()):
-        if uri.endswith(".cone"):
-            seen.add(uri)
-            yield uri, text
+def _folder_uris(ls) -> list[str]:
+    """The URIs of the workspace folders (the root URI for a client without folders)."""
     roots = []
     try:
         roots = [f.uri for f in ls.workspace.folders.values()]
@@ -802,40 +930,7 @@ def _workspace_texts(ls: ConeServer, max_files: int = 2000, max_bytes: int = 1_0
             roots = [ls.workspace.root_uri]
     except Exception:
         pass
-    count = 0
-    for root in roots:
-        base = Path(unquote(urlparse(root).path))
-        if not base.is_dir():
-            continue
-        for dirpath, dirnames, filenames in os.walk(base):
-            dirnames[:] = [d for d in dirnames if not d.startswith(".") and d not in ("node_modules", "__pycache__")]
-            for fn in filenames:
-                if not fn.endswith(".cone"):
-                    continue
-                path = Path(dirpath) / fn
-                uri = path.as_uri()
-                if uri in seen:
-                    continue
-                seen.add(uri)
-                count += 1
-                if count > max_files:
-                    return
-                try:
-                    st = path.stat()
-                    if st.st_size > max_bytes:
-                        continue
-                    cached = ls.workspace_files.get(uri)
-                    if cached and cached[0] == st.st_mtime and cached[1] == st.st_size:
-                        text = cached[2]
-                    else:
-                        text = path.read_text("utf-8", errors="replace")
-                        ls.workspace_files[uri] = (st.st_mtime, st.st_size, text)
-                except OSError:
-                    continue
-                yield uri, text
-
-
-ConeServer.workspace_texts = _workspace_texts
+    return roots
 
 
 def main(argv=None) -> None:

@@ -11,6 +11,17 @@ a shared integer.  Inside the worker the engine's budget checks that integer on 
 with ``Cancelled``.  A computation that does not tick (or a worker that hangs) is killed when
 it has not stopped ``grace`` seconds after its cancellation, and a fresh worker is started.
 A job that runs longer than ``max_seconds`` is treated the same way.
+
+Other files: the worker's host reads the files that ``use`` statements name through its own
+:class:`conelang.project.FileLoader`, but every job also carries ``files``, the texts the
+server sees of all the files the job's file uses (directly or through other files: the open
+text of an open file, the disk text otherwise, None for a file that cannot be read).  The
+worker applies them before the job, so it computes with exactly the texts the server's
+diagnostics were made from, whatever order jobs run in, and a job never depends on an earlier
+one having been delivered (a job is self-contained; the server's fingerprint of a job covers
+those texts too, so a cached answer is never one computed with another version of a used
+file).  Applying a text that did not change costs nothing, so the worker's analyses of shared
+files stay warm.
 """
 from __future__ import annotations
 
@@ -104,23 +115,43 @@ def _warm_up() -> None:
     gc.freeze()
 
 
-def worker_main(conn, shared, budget_limit, parent_pid) -> None:
+def apply_files(host, files: dict, allow_outside_root: bool) -> None:
+    """Make the worker's host see ``files`` (uri -> text, or None: read it from disk) and the
+    server's ``allow_outside_root``."""
+    loader = host.loader
+    if loader is not None and loader.allow_outside_root != allow_outside_root:
+        loader.allow_outside_root = allow_outside_root
+        host.forget_files()
+    for u, t in files.items():
+        if t is None:
+            host.remove(u)
+            host.invalidate(u)
+        else:
+            host.apply_change(u, t)
+
+
+def worker_main(conn, shared, budget_limit, parent_pid, allow_outside_root: bool = False) -> None:
     """Entry point of the worker process: answer jobs until the pipe closes."""
     from conelang.geometry.budget import Cancelled
     from conelang.host import AnalysisHost
+    from conelang.project import FileLoader
     threading.Thread(target=_watch_parent, args=(parent_pid,), daemon=True).start()
     flag = JobFlag(shared)
-    host = AnalysisHost(budget_limit, cancel=flag)
+    host = AnalysisHost(budget_limit, cancel=flag, loader=FileLoader(allow_outside_root))
     _warm_up()
     while True:
         try:
-            job_id, kind, uri, text, args = conn.recv()
+            job_id, kind, uri, text, args, files, allow = conn.recv()
         except (EOFError, OSError, KeyboardInterrupt):
             os._exit(0)
         flag.job = job_id
         if flag.is_set():
             reply = ("cancelled", None)
         else:
+            try:
+                apply_files(host, files, allow)
+            except Exception:  # noqa: BLE001 - the job still runs, with what the disk says
+                host.forget_files()
             host.apply_change(uri, text)
             try:
                 reply = ("ok", JOBS[kind](host, uri, *args))
@@ -149,6 +180,7 @@ class Job:
     key: str                       # fingerprint of the text
     text: str
     args: tuple
+    files: dict = field(default_factory=dict)     # uri -> text of the files the job's file uses
     future: cf.Future = field(default_factory=cf.Future)
     cancelled_at: float | None = None
 
@@ -162,8 +194,10 @@ class HeavyWorker:
     """
 
     def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT, grace: float = 1.0,
-                 max_seconds: float | None = None, start_method: str = "spawn"):
+                 max_seconds: float | None = None, start_method: str = "spawn",
+                 allow_outside_root: bool = False):
         self.budget_limit = budget_limit
+        self.allow_outside_root = allow_outside_root     # sent with every job: may change at any time
         self.grace = grace
         self.max_seconds = max_seconds
         self._ctx = mp.get_context(start_method)
@@ -190,7 +224,8 @@ class HeavyWorker:
     def _spawn(self) -> None:
         parent, child = self._ctx.Pipe()
         proc = self._ctx.Process(target=worker_main, name="conelang-heavy",
-                                 args=(child, self._shared, self.budget_limit, os.getpid()), daemon=True)
+                                 args=(child, self._shared, self.budget_limit, os.getpid(),
+                                       self.allow_outside_root), daemon=True)
         proc.start()
         child.close()
         self._proc, self._conn = proc, parent
@@ -228,7 +263,10 @@ class HeavyWorker:
         return self._proc.pid if self._proc is not None else None
 
     # -- jobs
-    def submit(self, kind: str, uri: str, text: str, *args, key: str, interactive: bool = False) -> cf.Future:
+    def submit(self, kind: str, uri: str, text: str, *args, key: str, interactive: bool = False,
+               files: dict | None = None) -> cf.Future:
+        """``key``: the fingerprint of ``text`` and ``files`` (the texts of the files ``uri``
+        uses, see the module docstring): jobs are shared and cancelled by it."""
         with self._cond:
             if self._stopped:
                 f = cf.Future()
@@ -241,7 +279,7 @@ class HeavyWorker:
                         self._queue.remove(job)
                         self._queue.appendleft(job)
                     return job.future
-            job = Job(next(self._ids), kind, uri, key, text, args)
+            job = Job(next(self._ids), kind, uri, key, text, args, dict(files or {}))
             if interactive:
                 self._queue.appendleft(job)
             else:
@@ -299,7 +337,7 @@ class HeavyWorker:
         if self._conn is None or self._proc is None or not self._proc.is_alive():
             self.restart()
         try:
-            self._conn.send((job.id, job.kind, job.uri, job.text, job.args))
+            self._conn.send((job.id, job.kind, job.uri, job.text, job.args, job.files, self.allow_outside_root))
             started = time.monotonic()
             while not self._conn.poll(0.05):
                 if self._stopped:

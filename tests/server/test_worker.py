@@ -97,3 +97,30 @@ def test_a_job_that_ignores_cancellation_is_killed_after_the_grace_time():
         w.stop()
     with pytest.raises(WorkerFailed):
         w.submit("ping", "", "", key="").result(WAIT)        # stopped for good
+
+
+def test_a_job_computes_with_the_texts_it_carries_of_the_files_it_uses(worker, tmp_path):
+    # cone((1,0),(0,1)) is smooth, cone((1,0),(1,2)) is not (determinant 2): plain linear algebra
+    (tmp_path / "conelang.toml").write_text("")
+    shared = tmp_path / "shared.cone"
+    shared.write_text("lattice N = Z^2\ncone wedge in N { rays (1,0) (0,1) }\n")
+    importer, shared_uri = (tmp_path / "importer.cone").as_uri(), shared.as_uri()
+    text = 'use "shared.cone" (N, wedge)\nexpect wedge smooth\n'
+
+    def codes(key, files=None, allow=False):
+        worker.allow_outside_root = allow
+        return [d.code for d in worker.submit("diagnostics", importer, text, key=key, files=files).result(WAIT)]
+
+    assert codes("disk") == []                                   # nothing carried: the worker reads the disk
+    # the server's (open, unsaved) text of the shared file wins over the disk
+    assert codes("open", {shared_uri: "lattice N = Z^2\ncone wedge in N { rays (1,0) (1,2) }\n"}) == ["expect-failed"]
+    # None: the file is to be read from disk again (it changed there)
+    shared.write_text("lattice N = Z^2\n")
+    assert codes("changed", {shared_uri: None}) == ["import-unknown-name"]
+    # the rule for files outside the project root comes with the job
+    outside = tmp_path.parent / f"{tmp_path.name}_outside.cone"
+    outside.write_text("lattice N = Z^2\ncone wedge in N { rays (1,0) (0,1) }\n")
+    text = f'use "../{outside.name}" (N, wedge)\nexpect wedge smooth\n'
+    assert codes("outside") == ["import-outside-root"]
+    assert codes("allowed", allow=True) == []
+    assert codes("refused") == ["import-outside-root"]
