@@ -94,14 +94,14 @@ def _host_with(text: str) -> tuple[AnalysisHost, str]:
 
 
 def test_internal_error_is_reported_on_the_definition_and_the_rest_is_analysed(monkeypatch):
-    from conelang.semantics import analysis
+    from conelang.semantics import evaluate
 
     def broken(self, st):
         if st.name.text == "buggy":
             raise ZeroDivisionError("simulated bug")
         return original(self, st)
-    original = analysis.Analysis._evaluate
-    monkeypatch.setattr(analysis.Analysis, "_evaluate", broken)
+    original = evaluate.Evaluator._evaluate
+    monkeypatch.setattr(evaluate.Evaluator, "_evaluate", broken)
     host, uri = _host_with("lattice N = Z^2\ncone a in N { rays (1,0) (1,2) }\n"
                            "cone buggy in N { rays (1,0) (0,7) }\nexpect a dim = 3\n")
     got = [(d.code, d.message) for d in host.diagnostics(uri)]
@@ -110,11 +110,11 @@ def test_internal_error_is_reported_on_the_definition_and_the_rest_is_analysed(m
 
 
 def test_too_deep_is_reported_when_evaluation_recurses_too_far(monkeypatch):
-    from conelang.semantics import analysis
+    from conelang.semantics import evaluate
 
     def deep(self, st):
         raise RecursionError
-    monkeypatch.setattr(analysis.Analysis, "_evaluate", deep)
+    monkeypatch.setattr(evaluate.Evaluator, "_evaluate", deep)
     # texts of their own: the analysis remembers evaluations of statement texts it has seen
     host, uri = _host_with("lattice DeepTest = Z^4\n")
     assert [d.code for d in host.diagnostics(uri)] == ["too-deep"]

@@ -203,7 +203,7 @@ def fan_facts(analysis, value: V.FanValue, heavy: bool = True) -> dict:
     """Facts of a fan: validity (with the problems of an invalid one), completeness,
     smoothness, orbits, Picard and class groups, self-intersections (smooth surfaces), the
     data of a resolution (``resolves``), and the affine charts of the maximal cones."""
-    from .analysis import fmt_vec
+    from .forms import fmt_vec
     s = value.space
     out = {"kind": "fan", "lattice": s.label,
            "rays": [_user(s, r) for r in value.rays],

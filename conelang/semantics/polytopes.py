@@ -57,18 +57,18 @@ def evaluate(a, st):
 
 
 def polytope_def(a, st: A.PolytopeDef) -> V.PolytopeValue:
-    space = a._space(st.lattice)
+    space = a.space(st.lattice)
     seen: dict[str, A.PolySection] = {}
     for sec in st.sections:
         kw = sec.keyword.text
         if kw in seen:
-            a._fail(sec.keyword.span, "duplicate-section", f"'{kw}' is given twice in this polytope")
+            a.fail(sec.keyword.span, "duplicate-section", f"'{kw}' is given twice in this polytope")
         seen[kw] = sec
     if len(seen) == 2:
-        a._fail(seen["halfspaces"].keyword.span, "mixed-description",
+        a.fail(seen["halfspaces"].keyword.span, "mixed-description",
                 "a polytope is given either by vertices or by halfspaces, not both")
     if not seen:
-        a._fail(st.name.span, "missing-description", f"polytope '{st.name.text}' needs 'vertices …' or 'halfspaces …'")
+        a.fail(st.name.span, "missing-description", f"polytope '{st.name.text}' needs 'vertices …' or 'halfspaces …'")
     if "vertices" in seen:
         return _by_vertices(a, st, space, seen["vertices"])
     return _by_halfspaces(a, st, space, seen["halfspaces"])
@@ -76,8 +76,8 @@ def polytope_def(a, st: A.PolytopeDef) -> V.PolytopeValue:
 
 def _by_vertices(a, st, space: V.Space, sec: A.PolySection) -> V.PolytopeValue:
     if not sec.vectors:
-        a._fail(sec.span, "empty-polytope", f"polytope '{st.name.text}' has no vertices: it is empty")
-    pts = a._vectors(sec.vectors, space, "vertex", allow_zero=True)
+        a.fail(sec.span, "empty-polytope", f"polytope '{st.name.text}' has no vertices: it is empty")
+    pts = a.vectors(sec.vectors, space, "vertex", allow_zero=True)
     coords = [x for _, x in pts]
     P = a.engine.cached("polytope_from_points", gpoly.polytope_from_points, tuple(coords), space.rank)
     for i in gpoly.redundant_points(coords, P):
@@ -91,19 +91,19 @@ def _by_vertices(a, st, space: V.Space, sec: A.PolySection) -> V.PolytopeValue:
 
 def _by_halfspaces(a, st, space: V.Space, sec: A.PolySection) -> V.PolytopeValue:
     d = space.rank
-    normals = a._vectors([h.normal for h in sec.halfspaces], space.dual(), "halfspace normal")
+    normals = a.vectors([h.normal for h in sec.halfspaces], space.dual(), "halfspace normal")
     rows = []
     for (_, u), h in zip(normals, sec.halfspaces):
         c = -h.bound.value                                   # <u, x> >= b  is  <u, x> + c >= 0
         den = c.denominator
         rows.append((tuple(den * x for x in u), int(c * den)))
     if not rows:
-        a._fail(sec.span, "unbounded-polytope", "no halfspaces: they cut out the whole space, which is unbounded")
+        a.fail(sec.span, "unbounded-polytope", "no halfspaces: they cut out the whole space, which is unbounded")
     res = a.engine.cached("polyhedron_from_halfspaces", gpoly.polyhedron_from_halfspaces, tuple(rows), d)
     if res.empty:
-        a._fail(sec.keyword.span, "empty-polytope", f"the halfspaces of '{st.name.text}' have no common point: it is empty")
+        a.fail(sec.keyword.span, "empty-polytope", f"the halfspaces of '{st.name.text}' have no common point: it is empty")
     if res.direction is not None:
-        a._fail(sec.keyword.span, "unbounded-polytope",
+        a.fail(sec.keyword.span, "unbounded-polytope",
                 f"the halfspaces of '{st.name.text}' cut out an unbounded set: it contains every point "
                 f"x + t·{fmt_vec(space.from_coords(res.direction))} (t >= 0) of its points x")
     for v in res.vertices:
@@ -111,7 +111,7 @@ def _by_halfspaces(a, st, space: V.Space, sec: A.PolySection) -> V.PolytopeValue
             user = space.from_coords(v) if space.is_standard else _rational_user(space, v)
             tight = [f"{h.normal.source()} >= {_num(h.bound.value)}" for (u, c), h in zip(rows, sec.halfspaces)
                      if sum(Fraction(x) * y for x, y in zip(v, u)) + c == 0]
-            a._fail(sec.keyword.span, "not-lattice-polytope",
+            a.fail(sec.keyword.span, "not-lattice-polytope",
                     f"the halfspaces of '{st.name.text}' cut out a polytope with the vertex {fmt_vec(user)}, "
                     f"which is not in {space.label} (where {' and '.join(tight)} meet): it is not a lattice polytope")
     for i in res.redundant:
@@ -137,12 +137,12 @@ def _rational_user(space: V.Space, v) -> tuple:
 # ---- expressions ------------------------------------------------------------------------
 def polytope_expr(a, expr) -> V.PolytopeValue:
     if isinstance(expr, A.PolytopeRef):
-        return a._need(expr.name)
+        return a.need(expr.name)
     if isinstance(expr, A.PolarPolytope):
         return _polar(a, expr)
     if isinstance(expr, A.PolytopeFace):
         inner = polytope_expr(a, expr.inner)
-        (_, u), = a._vectors([expr.functional], inner.space.dual(), "functional", allow_zero=True)
+        (_, u), = a.vectors([expr.functional], inner.space.dual(), "functional", allow_zero=True)
         return V.PolytopeValue(inner.space, a.engine.cached("polytope_face", gpoly.face, inner.polytope, u))
     if isinstance(expr, A.Dilation):
         inner = polytope_expr(a, expr.inner)
@@ -153,7 +153,7 @@ def polytope_expr(a, expr) -> V.PolytopeValue:
         return V.PolytopeValue(space, a.engine.cached("polytope_product", gpoly.product, left.polytope, right.polytope))
     if left.space != right.space:
         what = "add" if expr.op == "sum" else "take the hull of"
-        a._fail(expr.span, "lattice-mismatch",
+        a.fail(expr.span, "lattice-mismatch",
                 f"cannot {what} a polytope in {left.space.label} and one in {right.space.label}")
     fn = gpoly.minkowski_sum if expr.op == "sum" else gpoly.convex_hull
     return V.PolytopeValue(left.space, a.engine.cached("polytope_" + expr.op, fn, left.polytope, right.polytope))
@@ -173,36 +173,36 @@ def _polar(a, expr: A.PolarPolytope) -> V.PolytopeValue:
     inner = polytope_expr(a, expr.inner)
     P, space = inner.polytope, inner.space
     if not gpoly.origin_in_interior(P):
-        a._fail(expr.span, "origin-not-interior",
+        a.fail(expr.span, "origin-not-interior",
                 f"the polar needs the origin in the interior of the polytope, but {_origin_problem(inner)}")
     dual = space.dual()
     verts = gpoly.polar_vertices(P)
     for v in verts:
         if any(x.denominator != 1 for x in v):
             user = dual.from_coords(v) if dual.is_standard else _rational_user(dual, v)
-            a._fail(expr.span, "polar-not-lattice",
+            a.fail(expr.span, "polar-not-lattice",
                     f"the polar is not a lattice polytope: its vertex {fmt_vec(user)} is not in {dual.label}")
     pts = tuple(tuple(int(x) for x in v) for v in verts)
     return V.PolytopeValue(dual, a.engine.cached("polytope_from_points", gpoly.polytope_from_points, pts, space.rank))
 
 
 def cone_over(a, expr: A.ConeOver) -> V.ConeValue:
-    p = a._need(expr.polytope)
+    p = a.need(expr.polytope)
     space = sum_space([p.space, V.Space("Z^1", glat.standard(1))], f"{p.space.label} × Z")
     return V.ConeValue(space, p.polytope.cone)
 
 
 def fan_of_polytope(a, st: A.FanOfPolytope) -> V.FanValue:
-    p = a._need(st.polytope)
+    p = a.need(st.polytope)
     if st.which == "normal":
         if not p.polytope.full:
-            a._fail(st.polytope.span, "not-full-dimensional",
+            a.fail(st.polytope.span, "not-full-dimensional",
                     f"'{st.polytope.text}' has dimension {p.polytope.dim} in a lattice of rank {p.space.rank}: "
                     "its normal fan is not pointed")
         rays, cones = gpoly.normal_fan(p.polytope)
         return V.FanValue(p.space.dual(), rays, cones)
     if not gpoly.origin_in_interior(p.polytope):
-        a._fail(st.polytope.span, "origin-not-interior",
+        a.fail(st.polytope.span, "origin-not-interior",
                 f"the face fan needs the origin in the interior of '{st.polytope.text}', but {_origin_problem(p)}")
     rays, cones = gpoly.face_fan(p.polytope)
     return V.FanValue(p.space, rays, cones)
@@ -217,18 +217,18 @@ def with_grading(a, st: A.ConeDef, value: V.ConeValue) -> V.ConeValue:
         return value
     sec = secs[0]
     if len(secs) > 1:
-        a._fail(secs[1].keyword.span, "duplicate-section", "'grading' is given twice in this cone")
+        a.fail(secs[1].keyword.span, "duplicate-section", "'grading' is given twice in this cone")
     if len(sec.vectors) != 1:
-        a._fail(sec.span, "bad-grading", f"a grading is one vector of {value.space.dual().label}, "
+        a.fail(sec.span, "bad-grading", f"a grading is one vector of {value.space.dual().label}, "
                                          f"{len(sec.vectors)} given")
-    (node, w), = a._vectors(sec.vectors, value.space.dual(), "grading", allow_zero=True)
+    (node, w), = a.vectors(sec.vectors, value.space.dual(), "grading", allow_zero=True)
     c = value.cone
     if c.lineality:
-        a._fail(node.span, "bad-grading", "a cone that contains a line has no grading positive on it")
+        a.fail(node.span, "bad-grading", "a cone that contains a line has no grading positive on it")
     for r in c.rays:
         val = linalg.dot(w, r)
         if val <= 0:
-            a._fail(node.span, "bad-grading",
+            a.fail(node.span, "bad-grading",
                     f"a grading must be positive on every ray, but <{node.source()}, "
                     f"{fmt_vec(value.space.from_coords(r))}> = {val}")
     return dataclasses.replace(value, grading=w)

@@ -254,7 +254,7 @@ def shift_node(node, delta: int):
     new = object.__new__(cls)
     d = new.__dict__
     for key, val in node.__dict__.items():
-        if key == "span" or key == "statement_span":
+        if key == "span" or key.endswith("_span"):       # span, statement_span, path_span
             val = (val[0] + delta, val[1] + delta)
         elif type(val) in _NODE_TYPES:
             val = shift_node(val, delta)
