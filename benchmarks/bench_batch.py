@@ -18,7 +18,7 @@ from pathlib import Path
 def make_files(folder: Path, n: int) -> list[str]:
     """Files like a classification project's: a cone, its dual, and pinned invariants (the
     pinned values are computed here, before timing, so every check passes)."""
-    from conelang.host import AnalysisHost
+    from conelang.ide import AnalysisHost
     from conelang.semantics.properties import compute
     rng = random.Random(11)
     paths = []

@@ -47,7 +47,7 @@ def percentile(xs, q):
 
 def in_process_baseline(text: str, edits: list[str]) -> list[float]:
     """The same edits analysed in this process, without the protocol: the baseline."""
-    from conelang.host import AnalysisHost
+    from conelang.ide import AnalysisHost
     host = AnalysisHost()
     host.apply_change("b", text)
     host.diagnostics("b")

@@ -1,7 +1,7 @@
 """The Python API of conelang, for scripts and notebooks.
 
 :func:`load` and :func:`loads` analyse ``.cone`` text exactly as ``conelang show --format json``
-does (through :class:`conelang.host.AnalysisHost`, the one entry point of the command line and
+does (through :class:`conelang.ide.host.AnalysisHost`, the one entry point of the command line and
 the language server) and return a :class:`Document`.  Its objects give the facts of the JSON
 document with attribute access; numbers are exact: ``int``, and ``fractions.Fraction`` where
 the JSON writes a rational ``"p/q"``; lists become tuples.  The constructors :func:`lattice`,
@@ -39,7 +39,7 @@ from pathlib import Path
 from typing import Any, Union
 
 from .geometry import budget as gbudget
-from .host import AnalysisHost
+from .ide import AnalysisHost
 
 __all__ = ["load", "loads", "lattice", "cone", "map", "fan", "polytope", "characters",
            "Document", "Object", "Section", "Diagnostic", "ConelangError", "DEFAULT_BUDGET"]

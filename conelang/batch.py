@@ -26,11 +26,11 @@ _HOST: list = [None, None]           # (settings and run, host) of this process
 
 def process_host(budget_limit=None, allow_outside_root: bool = False, run_id: str = ""):
     """The analysis host of this process for one run of :func:`run` (files that other files use
-    stay analysed in it, see :meth:`conelang.host.AnalysisHost.release`; a new run, say on a
+    stay analysed in it, see :meth:`conelang.ide.host.AnalysisHost.release`; a new run, say on a
     long-lived cluster worker, starts afresh, so it sees the files as they are now)."""
     key = (budget_limit, allow_outside_root, run_id)
     if _HOST[0] != key or _HOST[1] is None:
-        from .host import AnalysisHost
+        from .ide import AnalysisHost
         from .project import FileLoader
         _HOST[:] = [key, AnalysisHost(budget_limit, loader=FileLoader(allow_outside_root))]
     return _HOST[1]
@@ -54,13 +54,11 @@ def check_path(path: str, budget_limit=None, allow_outside_root: bool = False, r
     host = process_host(budget_limit, allow_outside_root, run_id)
     host.apply_change(path, text)
     try:
-        a = host.analysis(path)
         lines, errors, warnings = [], 0, 0
-        for d in host.diagnostics(path):
-            line, col = a.index.position(d.span[0])
-            lines.append(f"{path}:{line + 1}:{col + 1}: {d.severity}: {d.message} [{d.code}]")
-            errors += d.severity == "error"
-            warnings += d.severity == "warning"
+        for severity, line in host.diagnostic_lines(path):
+            lines.append(line)
+            errors += severity == "error"
+            warnings += severity == "warning"
     finally:
         host.release(path)
     return {"path": path, "status": "failed" if errors else "ok", "message": "", "lines": lines,
@@ -93,9 +91,8 @@ def run(paths: list[str], jobs: int = 1, budget_limit=None, progress=None, sched
                 progress(i, total)
         return out
     # warm up before the workers fork, so they inherit the imports and the built parser
-    from .syntax.parser import _parser
-    from . import host  # noqa: F401  (imported for the workers to inherit)
-    _parser()
+    from .ide import warm_up
+    warm_up()
     # several files per task keeps the per-task overhead small; results stay in input order
     size = max(1, min(32, total // (jobs * 4) or 1))
     chunks = _chunks(paths, size)

@@ -1,4 +1,4 @@
-"""The ``conelang`` command line: a thin adapter over :class:`conelang.host.AnalysisHost`.
+"""The ``conelang`` command line: a thin adapter over :class:`conelang.ide.host.AnalysisHost`.
 
 Exit codes: 0 no error and every expectation holds; 1 otherwise; 2 usage error or an
 unreadable file.
@@ -12,7 +12,7 @@ import time
 from pathlib import Path
 
 from .geometry import budget as gbudget
-from .host import AnalysisHost
+from .ide import AnalysisHost, diagnostic_line
 
 FORMATS = ("text", "markdown", "json", "latex", "svg")
 
@@ -161,16 +161,14 @@ def cmd_show(args) -> int:
         raise UsageError(f"{args.path}: no such file")
     progress = _Progress() if sys.stderr.isatty() else None
     from .project import FileLoader
-    from .semantics.imports import Imported
     host = AnalysisHost(args.budget, progress=progress, loader=FileLoader(args.allow_outside_root))
     uri = str(path)
     host.apply_change(uri, _read(path))
-    a = host.analysis(uri)
-    unknown = [n for n in args.names if n not in a.defs]
+    names = host.defined_names(uri)
+    unknown = [n for n in args.names if n not in names]
     if unknown:
         raise UsageError(f"{path}: no definition named {', '.join(unknown)}")
-    elsewhere = [f"'{n}' is defined in {a.defs[n].source_label}" for n in args.names
-                 if isinstance(a.defs[n], Imported)]
+    elsewhere = [f"'{n}' is defined in {names[n]}" for n in args.names if names[n] is not None]
     if elsewhere:
         raise UsageError(f"{path}: {'; '.join(elsewhere)}: show that file")
     try:
@@ -191,7 +189,7 @@ def cmd_show(args) -> int:
         from .render import text as r
     if fmt in ("text", "markdown"):
         for d in doc["diagnostics"]:
-            print(f"{path}:{d['line']}:{d['column']}: {d['severity']}: {d['message']} [{d['code']}]", file=sys.stderr)
+            print(diagnostic_line(str(path), d), file=sys.stderr)
     out = (r.render(doc, whole_document=True) if fmt == "latex" and args.whole_document
            else r.render(doc))
     sys.stdout.write(out if out.endswith("\n") else out + "\n")

@@ -1,6 +1,6 @@
 """Editor questions about one file, as pure functions of an :class:`Analysis` and an offset.
 
-:class:`conelang.host.AnalysisHost` answers with these; the language server only converts
+:class:`conelang.ide.host.AnalysisHost` answers with these; the language server only converts
 offsets to protocol positions.  Nothing here does I/O.  Results are plain values (tuples,
 small frozen dataclasses, strings) so that they can cross a process boundary.
 

@@ -1,6 +1,6 @@
 """The conelang language server (LSP over stdio, pygls 2).
 
-The handlers are thin: they turn positions into offsets, ask :class:`conelang.host.AnalysisHost`
+The handlers are thin: they turn positions into offsets, ask :class:`conelang.ide.host.AnalysisHost`
 (cheap questions, on the event loop) or the worker process (heavy ones: expectations, Hilbert
 bases, equations, invariants; see :mod:`conelang.server.worker`), and turn the answers back into
 protocol objects.  Every handler is wrapped so that one bad request never takes the server
@@ -44,7 +44,7 @@ from pygls.protocol import LanguageServerProtocol
 import conelang
 from conelang import editor
 from conelang.geometry import budget as gbudget
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 from conelang.project import FileLoader
 from conelang.syntax import ast as A
 

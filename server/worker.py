@@ -1,6 +1,6 @@
 """The worker process of the language server: heavy computations off the event loop.
 
-The server keeps one worker process with its own :class:`conelang.host.AnalysisHost` (and so
+The server keeps one worker process with its own :class:`conelang.ide.host.AnalysisHost` (and so
 its own geometry cache, which lives as long as the process: editing one cone recomputes only
 that cone).  Jobs are sent one at a time over a pipe; the queue stays in the server, so a job
 whose text is already stale is dropped before it is ever sent.
@@ -133,7 +133,7 @@ def apply_files(host, files: dict, allow_outside_root: bool) -> None:
 def worker_main(conn, shared, budget_limit, parent_pid, allow_outside_root: bool = False) -> None:
     """Entry point of the worker process: answer jobs until the pipe closes."""
     from conelang.geometry.budget import Cancelled
-    from conelang.host import AnalysisHost
+    from conelang.ide import AnalysisHost
     from conelang.project import FileLoader
     threading.Thread(target=_watch_parent, args=(parent_pid,), daemon=True).start()
     flag = JobFlag(shared)

@@ -3,7 +3,7 @@ one file means for the files that use it.
 
 The analysis host knows the open files and the files they use; the files that use a given
 file may be anywhere in the workspace, open or not.  :class:`Workspace` keeps the list of the
-workspace's ``.cone`` files (the *candidates* of :meth:`conelang.host.AnalysisHost.dependents`,
+workspace's ``.cone`` files (the *candidates* of :meth:`conelang.ide.host.AnalysisHost.dependents`,
 rename and references): listed once when the session starts (bounded: hidden folders,
 ``node_modules`` and ``__pycache__`` are skipped, and at most ``max_files`` files are kept),
 then kept up to date by ``workspace/didChangeWatchedFiles`` (a watcher for ``**/*.cone`` is

@@ -391,10 +391,10 @@ def test_an_object_picture_is_its_own():
 
 def test_import_conelang_stays_cheap():
     code = ("import sys, conelang, conelang.cli; "
-            "assert 'conelang.api' not in sys.modules and 'conelang.host' in sys.modules; "
+            "assert 'conelang.api' not in sys.modules and 'conelang.ide.host' in sys.modules; "
             "import conelang as c; c.load; assert 'conelang.api' in sys.modules; "
             "assert c.map is sys.modules['conelang.api'].map")
-    subprocess.run([sys.executable, "-c", "import sys, conelang; assert 'conelang.host' not in sys.modules, "
+    subprocess.run([sys.executable, "-c", "import sys, conelang; assert 'conelang.ide.host' not in sys.modules, "
                     "sorted(sys.modules)"], check=True, cwd=ROOT)
     subprocess.run([sys.executable, "-c", code], check=True, cwd=ROOT)
     assert {"load", "loads", "cone", "map", "fan", "lattice"} <= set(dir(conelang))

@@ -12,7 +12,7 @@ from pathlib import Path
 import pytest
 
 from conelang.cli import main
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 from conelang.project import FileLoader
 
 CORPUS = sorted((Path(__file__).parent / "corpus" / "broken").glob("*.cone"))

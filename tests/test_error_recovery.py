@@ -10,7 +10,7 @@ import re
 
 import pytest
 
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 from conelang.semantics import engine as sem_engine
 from conelang.syntax.parser import parse
 from conelang.syntax.text import closest_word, edit_distance

@@ -14,7 +14,7 @@ import pytest
 import sympy
 
 from conelang.cli import main
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 from conelang.semantics import properties as P
 from conelang.semantics.analysis import Analysis
 from references import hirzebruch_jung as hj

@@ -12,7 +12,7 @@ from pathlib import Path
 
 from hypothesis import HealthCheck, given, settings, strategies as st
 
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 from conelang.render import json as rjson
 from conelang.render import markdown as rmd
 from conelang.render import text as rtext

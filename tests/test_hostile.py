@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import random
 
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 
 SMALL_BUDGET = 2_000_000
 

@@ -1,7 +1,7 @@
 """End-to-end checks of the language on small worked examples (the facts a user reads)."""
 from __future__ import annotations
 
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 
 
 def doc(text: str) -> dict:

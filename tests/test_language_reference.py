@@ -8,7 +8,7 @@ from pathlib import Path
 
 import pytest
 
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 from conelang.semantics.properties import REGISTRY
 from conelang.syntax.parser import KEYWORDS
 

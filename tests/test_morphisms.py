@@ -16,7 +16,7 @@ from fractions import Fraction
 import pytest
 import sympy
 
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 
 
 def document(text: str) -> dict:

@@ -11,7 +11,7 @@ import pytest
 
 from conelang.cli import main
 from conelang.editor import completions
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 from conelang.semantics.analysis import Analysis
 
 BASE = """lattice N = Z^2

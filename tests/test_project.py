@@ -14,7 +14,7 @@ import pytest
 
 from conelang import batch
 from conelang.cli import main
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 from conelang.project import FileLoader, uri_to_path
 from conelang.semantics import analysis as sem_analysis
 

@@ -22,7 +22,7 @@ import sympy
 
 import conelang.render.latex as latex_mod
 import conelang.render.svg as svg_mod
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 
 NS = {"s": "http://www.w3.org/2000/svg"}
 

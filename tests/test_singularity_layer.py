@@ -11,7 +11,7 @@ import itertools
 
 import sympy
 
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 from conelang.semantics.analysis import Analysis
 
 

@@ -5,7 +5,7 @@ question, in ``tests/golden/<group>/<file stem>/<case>.out``:
 
 * ``check`` — ``conelang check FILE``: exit code, stdout, stderr;
 * ``show-<format>`` — ``conelang show FILE --format <format>`` for every format;
-* ``lsp-…`` — what :class:`conelang.host.AnalysisHost` answers without a server: diagnostics,
+* ``lsp-…`` — what :class:`conelang.ide.host.AnalysisHost` answers without a server: diagnostics,
   hovers (every definition name, vectors, properties), go-to-definition and references,
   completions at a few offsets, semantic tokens, formatting, code actions, inlay hints, folding,
   outline and the "pin results" edits.
@@ -77,7 +77,7 @@ class Probe:
     """One host with one file open, and positions written as line:column (1-based)."""
 
     def __init__(self, path: Path):
-        from conelang.host import AnalysisHost
+        from conelang.ide import AnalysisHost
         from conelang.project import FileLoader
         self.uri = str(path)                 # absolute: `use` paths are relative to the file
         self.host = AnalysisHost(BUDGET, loader=FileLoader())

@@ -10,7 +10,7 @@ from pathlib import Path
 
 import pytest
 
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 from conelang.editor import RenameError
 
 EXAMPLES = sorted((Path(__file__).resolve().parents[2] / "examples").glob("*.cone"))
@@ -96,11 +96,11 @@ def test_doctests():
     import doctest
 
     import conelang.editor
-    import conelang.host
+    import conelang.ide.host
     import conelang.server.convert
     import conelang.server.worker
     import conelang.syntax.format
-    for mod in (conelang.editor, conelang.host, conelang.server.convert, conelang.server.worker,
+    for mod in (conelang.editor, conelang.ide.host, conelang.server.convert, conelang.server.worker,
                 conelang.syntax.format):
         result = doctest.testmod(mod)
         assert result.failed == 0 and result.attempted > 0, mod.__name__

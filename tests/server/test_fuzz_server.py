@@ -13,7 +13,7 @@ import pytest_lsp
 from lsprotocol import types as T
 from pytest_lsp import ClientServerConfig, LanguageClient
 
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 
 from lsp_helpers import SERVER, initialize, open_doc, wait_for
 

@@ -9,7 +9,7 @@ import concurrent.futures as cf
 
 import pytest
 
-from conelang.host import AnalysisHost
+from conelang.ide import AnalysisHost
 from conelang.server.worker import HeavyWorker, JobCancelled, WorkerFailed
 
 WAIT = 60

@@ -13,22 +13,33 @@ text and an offset, in :mod:`conelang.editor`; the language server only converts
 """
 from __future__ import annotations
 
-from .geometry import budget as gbudget
-from .semantics.analysis import Analysis
-from .semantics.diagnostics import Diagnostic
-from .semantics.engine import Engine
-from .semantics.facts import object_facts
-from .semantics.imports import Imported, ImportFailure, Resolved
-from .syntax import ast as A
-from .syntax.text import LineIndex
-from . import editor
+from ..geometry import budget as gbudget
+from ..semantics.analysis import Analysis
+from ..semantics.diagnostics import Diagnostic
+from ..semantics.engine import Engine
+from ..semantics.facts import object_facts
+from ..semantics.imports import Imported, ImportFailure, Resolved
+from ..syntax import ast as A
+from ..syntax.text import LineIndex
+from .. import editor
 
 
 def diagnostic_json(d: Diagnostic, index) -> dict:
+    """A diagnostic as the JSON document writes it (1-based lines and columns)."""
     l1, c1 = index.position(d.span[0])
     l2, c2 = index.position(d.span[1])
     return {"line": l1 + 1, "column": c1 + 1, "end_line": l2 + 1, "end_column": c2 + 1,
             "severity": d.severity, "code": d.code, "message": d.message}
+
+
+def diagnostic_line(path: str, d: dict) -> str:
+    """The one-line form of a diagnostic (a :func:`diagnostic_json` dict) that ``check`` and
+    ``show`` print, ``path:line:col: severity: message [code]``.
+
+    >>> diagnostic_line("a.cone", {"line": 2, "column": 5, "severity": "error", "message": "no", "code": "syntax"})
+    'a.cone:2:5: error: no [syntax]'
+    """
+    return f"{path}:{d['line']}:{d['column']}: {d['severity']}: {d['message']} [{d['code']}]"
 
 
 class AnalysisHost:
@@ -172,7 +183,7 @@ class AnalysisHost:
             return hit[1]
         targets = []
         if self.loader is not None and "use" in text:
-            from .syntax.parser import parse
+            from ..syntax.parser import parse
             for st in parse(text).statements:
                 if isinstance(st, A.UseStmt):
                     got = self.loader.locate(uri, st.path)
@@ -266,6 +277,12 @@ class AnalysisHost:
     # -- questions -----------------------------------------------------------------------
     def diagnostics(self, uri: str, expectations: bool = True) -> list[Diagnostic]:
         return self.analysis(uri).diagnostics(expectations)
+
+    def diagnostic_lines(self, uri: str, label: str | None = None) -> list[tuple[str, str]]:
+        """(severity, line) for each diagnostic of ``uri``, as ``conelang check`` prints them."""
+        a = self.analysis(uri)
+        return [(d.severity, diagnostic_line(label or uri, diagnostic_json(d, a.index)))
+                for d in self.diagnostics(uri)]
 
     def document(self, uri: str, label: str | None = None, names: list[str] | None = None,
                  heavy: bool = True) -> dict:
@@ -392,6 +409,12 @@ class AnalysisHost:
             spans.insert(0, a.defs[name].name.span)
         return spans
 
+    def defined_names(self, uri: str) -> dict[str, str | None]:
+        """Every name ``uri`` can use: None for its own definitions, the path of the file
+        defining it for a name a ``use`` statement brings in."""
+        return {n: (st.source_label if isinstance(st, Imported) else None)
+                for n, st in self.analysis(uri).defs.items()}
+
     def symbols(self, uri: str) -> list[tuple[str, str, tuple, tuple]]:
         """(name, kind, statement span, name span) for every definition, in file order."""
         a = self.analysis(uri)
@@ -450,5 +473,5 @@ class AnalysisHost:
         return editor.rename(self.analysis(uri), offset, new_name)
 
     def format(self, uri: str) -> str:
-        from .syntax.format import format_text
+        from ..syntax.format import format_text
         return format_text(self.text(uri))
