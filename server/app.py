@@ -42,7 +42,7 @@ from pygls.lsp.server import LanguageServer
 from pygls.protocol import LanguageServerProtocol
 
 import conelang
-from conelang import editor
+from conelang.ide import editor
 from conelang.geometry import budget as gbudget
 from conelang.ide import AnalysisHost
 from conelang.project import FileLoader

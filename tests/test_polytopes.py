@@ -10,7 +10,7 @@ from itertools import product
 import pytest
 
 from conelang.cli import main
-from conelang.editor import completions
+from conelang.ide.editor import completions
 from conelang.ide import AnalysisHost
 from conelang.semantics.analysis import Analysis
 
@@ -183,7 +183,7 @@ def test_format_polytope_statements():
 
 
 def test_semantic_tokens_know_polytopes():
-    from conelang import editor
+    from conelang.ide import editor
     a = Analysis(BASE + "fan F = normal P\n")
     toks = {(a.text[s:e], kind) for s, e, kind, _ in editor.semantic_tokens(a)}
     assert ("P", "variable") in toks and ("polytope", "keyword") in toks

@@ -142,7 +142,7 @@ def test_map_kernel_image_cokernel_against_sympy():
 
 
 def test_hover_and_show_formats_name_the_quotient():
-    from conelang.editor import object_markdown
+    from conelang.ide.editor import object_markdown
     from conelang.render import latex, text
     a = Analysis(ONE_THIRD)
     md = object_markdown(a, "c")

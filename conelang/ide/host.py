@@ -4,7 +4,7 @@ The host keeps the text of each open file and answers questions in files and off
 does no I/O.  Analyses are cached per text, and heavy results per mathematical value (see
 :mod:`conelang.semantics.engine`).  The editor questions (hover, completion, code actions,
 inlay hints, semantic tokens, outline, folding, rename, formatting) are pure functions of the
-text and an offset, in :mod:`conelang.editor`; the language server only converts positions.
+text and an offset, in :mod:`conelang.ide.editor`; the language server only converts positions.
 
 >>> h = AnalysisHost()
 >>> h.apply_change("mem://a.cone", "lattice N = Z^2\\ncone c in N { rays (1,0) (1,2) }")
@@ -21,7 +21,7 @@ from ..semantics.facts import object_facts
 from ..semantics.imports import Imported, ImportFailure, Resolved
 from ..syntax import ast as A
 from ..syntax.text import LineIndex
-from .. import editor
+from . import editor
 
 
 def diagnostic_json(d: Diagnostic, index) -> dict:
@@ -380,7 +380,7 @@ class AnalysisHost:
         local alias (``use "f.cone" (wedge as w)``) is renamed in its own file only; otherwise
         the definition is renamed in its file and in every file that uses it, the names in use
         lists included (an alias elsewhere keeps its local name).  Raises
-        :class:`conelang.editor.RenameError` when the new name clashes in any of them."""
+        :class:`conelang.ide.editor.RenameError` when the new name clashes in any of them."""
         a = self.analysis(uri)
         hit = editor.prepare_rename(a, offset)
         if hit is None:
@@ -421,7 +421,7 @@ class AnalysisHost:
         return [(st.name.text, st.kind, st.span, st.name.span)
                 for st in a.module.statements if A.is_definition(st)]
 
-    # -- editor questions (see conelang.editor; every answer is a pure function of the text) --
+    # -- editor questions (see conelang.ide.editor; every answer is a pure function of the text) --
     def hover(self, uri: str, offset: int, heavy: bool = True) -> tuple[str, tuple] | None:
         """Markdown about the name or vector under ``offset`` and the span it covers.
 

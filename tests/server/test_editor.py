@@ -1,4 +1,4 @@
-"""The editor questions answered by the host (conelang/editor.py), without the protocol.
+"""The editor questions answered by the host (conelang/ide/editor.py), without the protocol.
 
 Checks: pinned results are accepted by the checker on every example file; completion,
 rename, folding and semantic tokens on small files whose answers follow from the syntax.
@@ -11,7 +11,7 @@ from pathlib import Path
 import pytest
 
 from conelang.ide import AnalysisHost
-from conelang.editor import RenameError
+from conelang.ide.editor import RenameError
 
 EXAMPLES = sorted((Path(__file__).resolve().parents[2] / "examples").glob("*.cone"))
 
@@ -95,12 +95,12 @@ def test_folding_and_semantic_tokens():
 def test_doctests():
     import doctest
 
-    import conelang.editor
+    import conelang.ide.editor
     import conelang.ide.host
     import conelang.server.convert
     import conelang.server.worker
     import conelang.syntax.format
-    for mod in (conelang.editor, conelang.ide.host, conelang.server.convert, conelang.server.worker,
+    for mod in (conelang.ide.editor, conelang.ide.host, conelang.server.convert, conelang.server.worker,
                 conelang.syntax.format):
         result = doctest.testmod(mod)
         assert result.failed == 0 and result.attempted > 0, mod.__name__

@@ -14,15 +14,15 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
-from .geometry import cone as gcone
-from .geometry import linalg
-from .geometry.budget import Cancelled
-from .semantics import values as V
-from .semantics.diagnostics import Diagnostic
-from .semantics.forms import fmt_vec as _fmt
-from .semantics.imports import Imported
-from .syntax import ast as A
-from .syntax.format import KEYWORDS, SECTION_KEYWORDS, STATEMENT_KEYWORDS, tokenize
+from ..geometry import cone as gcone
+from ..geometry import linalg
+from ..geometry.budget import Cancelled
+from ..semantics import values as V
+from ..semantics.diagnostics import Diagnostic
+from ..semantics.forms import fmt_vec as _fmt
+from ..semantics.imports import Imported
+from ..syntax import ast as A
+from ..syntax.format import KEYWORDS, SECTION_KEYWORDS, STATEMENT_KEYWORDS, tokenize
 
 NAME_RE = re.compile(r"[A-Za-z_][A-Za-z0-9_]*\Z")
 
@@ -138,7 +138,7 @@ def _primitive_text(space: V.Space, x) -> str:
 
 
 def _property_hover(a, offset: int):
-    from .semantics.properties import REGISTRY
+    from ..semantics.properties import REGISTRY
     for ex in a.expects:
         if ex.prop is not None and ex.prop.span[0] <= offset <= ex.prop.span[1]:
             kind = a.kind_of(ex.subject.text)
@@ -156,8 +156,8 @@ def object_markdown(a, name: str, heavy: bool = True, equations: bool = True) ->
     >>> print(object_markdown(Analysis("lattice N = Z^3"), "N"))
     ### lattice `N` — rank 3
     """
-    from .render.markdown import render_object
-    from .semantics.facts import object_facts
+    from ..render.markdown import render_object
+    from ..semantics.facts import object_facts
     if name not in a.defs:
         return None
     facts = object_facts(a, name, heavy, equations)
@@ -292,7 +292,7 @@ def completions(a, offset: int) -> list[Suggestion]:
     >>> [s.label for s in completions(a, len(a.text)) if s.kind == "lattice"]
     ['N', 'P']
     """
-    from .semantics.properties import BOOL, properties_for
+    from ..semantics.properties import BOOL, properties_for
     text = a.text
     offset = max(0, min(offset, len(text)))
     ws = offset
@@ -441,7 +441,7 @@ def pin_target(a, offset: int) -> str | None:
             name = st.subject.text
         elif st is not None and A.is_definition(st):
             name = st.name.text
-    from .semantics.properties import properties_for
+    from ..semantics.properties import properties_for
     if name is None or a.defs.get(name) is None or not properties_for(a.kind_of(name)):
         return None
     return name
@@ -459,7 +459,7 @@ def pin_lines(a, name: str) -> list[str]:
     >>> pin_lines(a, "c")[:4]
     ['expect c pointed', 'expect c full', 'expect c simplicial', 'expect c rays = 2']
     """
-    from .semantics.properties import BOOL, properties_for, show_result
+    from ..semantics.properties import BOOL, properties_for, show_result
     kind = a.kind_of(name)
     value = a.value(name)
     if value is None:
@@ -520,7 +520,7 @@ def inlay_hints(a, heavy: bool = True) -> list[tuple[int, str]]:
     >>> inlay_hints(Analysis("lattice N = Z^2\\ncone c in N { rays (1,0) (1,2) }"), heavy=False)
     [(48, 'dim 2 · pointed · simplicial')]
     """
-    from .render.common import cone_summary
+    from ..render.common import cone_summary
     out = []
     for name, st in a.defs.items():
         if st.kind != "cone":
@@ -624,7 +624,7 @@ def outline_of_text(text: str) -> list[Symbol]:
     >>> [(s.name, s.kind) for s in outline_of_text("lattice N = Z^2\\ncone c in N { rays }")]
     [('N', 'lattice'), ('c', 'cone')]
     """
-    from .syntax.parser import parse
+    from ..syntax.parser import parse
     return outline(parse(text), text)
 
 
@@ -704,7 +704,7 @@ def rename(a, offset: int, new_name: str) -> list[Edit]:
     >>> rename(a, 8, "cone")
     Traceback (most recent call last):
     ...
-    conelang.editor.RenameError: 'cone' is a keyword
+    conelang.ide.editor.RenameError: 'cone' is a keyword
     """
     hit = prepare_rename(a, offset)
     if hit is None:
