@@ -9,24 +9,25 @@ budget and asking again recomputes it.
 from __future__ import annotations
 
 import threading
-from collections import OrderedDict
 
+from ..cache import ContentCache
 from ..geometry import budget as gbudget
 from ..geometry import cone as gcone
 from ..geometry.budget import Budget, BudgetExceeded, Cancelled
-from .forms import budget_advice, fmt_vec
+from .forms import budget_advice, budget_message, fan_problem_message, fmt_vec
 
-_CACHE: "OrderedDict[tuple, object]" = OrderedDict()
-_CACHE_SIZE = 4096
-_LOCK = threading.Lock()
+# heavy results by their mathematical input (values are immutable and hashable)
+_CACHE = ContentCache("geometry results", 4096)
+_MISSING = object()
 
 
 class NotPointed(Exception):
-    """A computation that needs a pointed cone got one that contains the line through ``line``."""
+    """A computation that needs a pointed cone got one that contains the line through ``line``
+    (lattice coordinates; the messages that say so are made where the space is known)."""
 
     def __init__(self, line):
         self.line = line
-        super().__init__(f"the cone contains the line through {line}")
+        super().__init__(line)
 
 
 class NotAvailable(Exception):
@@ -34,8 +35,7 @@ class NotAvailable(Exception):
 
 
 def clear_cache() -> None:
-    with _LOCK:
-        _CACHE.clear()
+    _CACHE.clear()
 
 
 # what a progress line calls each cached computation (default: its name with spaces)
@@ -55,18 +55,14 @@ class Engine:
 
     def cached(self, name: str, fn, *args, budgeted: bool = True):
         key = (name,) + args
-        with _LOCK:
-            if key in _CACHE:
-                _CACHE.move_to_end(key)
-                return _CACHE[key]
+        hit = _CACHE.get(key, _MISSING)
+        if hit is not _MISSING:
+            return hit
         budget = self.budget()
         if self.progress is not None:
             self.progress(_PROGRESS_LABELS.get(name, name.split(":")[-1].replace("_", " ")), budget)
         result = fn(*args, budget=budget) if budgeted else fn(*args)
-        with _LOCK:
-            _CACHE[key] = result
-            if len(_CACHE) > _CACHE_SIZE:
-                _CACHE.popitem(last=False)
+        _CACHE.put(key, result)
         return result
 
     # -- cones -------------------------------------------------------------------------
@@ -130,20 +126,15 @@ class Engine:
         return self.cached("morphism_kinds", maps.classify, matrix, s, t)
 
     def morphism(self, value):
-        """Pullbacks, torus map and kinds of a toric morphism (see :mod:`conelang.geometry.maps`),
-        as the JSON-ready dict merged into the morphism's facts: ``pullbacks`` (target
-        coordinate w_j as a monomial in the source coordinates z_i), ``pullback_exponents``,
-        ``torus`` (t'_k as Laurent monomials in t_i), ``kinds`` and ``degree``."""
+        """The induced toric morphism of a morphism value (see :mod:`conelang.geometry.maps`):
+        ``(kinds, exponents)``, the :class:`conelang.geometry.maps.MorphismKinds` and, for each
+        target coordinate w_j, its pullback as exponents of the source coordinates z_i
+        (:func:`conelang.semantics.facts.morphism_facts` writes them)."""
         from ..geometry import maps
         kinds = self.morphism_kinds(value)
         matrix, s, t = value.map.matrix, value.source.cone, value.target.cone
         sg, tg = self.coordinates(s), self.coordinates(t)
-        exps = self.cached("pullback_exponents", maps.pullback_exponents, matrix, s, t, sg, tg)
-        return {"pullbacks": [maps.monomial_string(a) for a in exps],
-                "pullback_exponents": [list(a) for a in exps],
-                "torus": list(maps.torus_map(matrix, value.map.source.rank)),
-                "kinds": list(kinds.kinds()),
-                "degree": kinds.degree}
+        return kinds, self.cached("pullback_exponents", maps.pullback_exponents, matrix, s, t, sg, tg)
 
     def fan_check(self, value):
         """Validity of a fan (a :class:`conelang.geometry.fan.FanCheck`).  Fans made by
@@ -158,15 +149,15 @@ class Engine:
         from ..geometry import fan
         check = self.fan_check(value)
         if not check.valid:
-            raise NotAvailable("it is not a fan: " + check.errors[0].message())
+            raise NotAvailable("it is not a fan: " + fan_problem_message(check.errors[0]))
         return self.cached("fan_invariants", fan.fan_invariants, check)
 
     def valid_fan_facts(self, value):
         """:meth:`fan_facts`, with the reason a list of cones is not a fan in user coordinates."""
         check = self.fan_check(value)
         if not check.valid:
-            raise NotAvailable("it is not a fan: " + check.errors[0].message(
-                lambda x: fmt_vec(value.space.from_coords(x))))
+            raise NotAvailable("it is not a fan: " + fan_problem_message(
+                check.errors[0], lambda x: fmt_vec(value.space.from_coords(x))))
         return self.fan_facts(value)
 
     # -- polytopes and Hilbert series ----------------------------------------------------
@@ -211,7 +202,7 @@ def guard(errors: list, what: str, fn):
     except NotPointed:
         errors.append(f"{what}: the cone is not pointed")
     except BudgetExceeded as exc:
-        errors.append(f"{what}: {exc}; {budget_advice(exc)}")
+        errors.append(f"{what}: {budget_message(exc)}; {budget_advice(exc)}")
     except NotAvailable as exc:
         errors.append(f"{what}: {exc}")
     except Exception as exc:  # never lose the other facts to one bug

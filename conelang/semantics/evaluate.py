@@ -13,8 +13,10 @@ public for the evaluators of other statement kinds (:mod:`conelang.semantics.pol
 """
 from __future__ import annotations
 
+import hashlib
 from fractions import Fraction
 
+from ..cache import ContentCache
 from ..geometry import cone as gcone
 from ..geometry import lattice as glat
 from ..geometry import linalg
@@ -25,16 +27,17 @@ from . import values as V
 from .diagnostics import EvalError, Fix, Related, shifted
 from . import imports as I
 from .forms import budget_advice, fan_cone_label, fmt_vec, violation_message
+from .imports import Imported
 from .names import KIND_ARTICLE
 
 # Evaluations remembered across analyses (an edited file is analysed again from scratch): for a
 # statement whose evaluation reads nothing but its own text and the values of the names it uses,
 # the value and the diagnostics it reported (spans relative to the statement) are a function of
-# (statement type, statement text, the kinds and values of those names, the budget).  So an edit
-# re-evaluates only the edited statement and what uses a value that changed.
+# its content fingerprint (see Evaluator.fingerprint: statement type and text, the budget, and
+# the kinds and fingerprints of those names).  So an edit re-evaluates only the edited statement
+# and what uses a definition whose content changed.
 _MEMO_TYPES = (A.LatticeStmt, A.ConeDef, A.ConeLet, A.MapStmt, A.CharactersStmt, A.PolytopeDef, A.PolytopeLet)
-_MEMO: dict[tuple, tuple] = {}
-_MEMO_MAX = 20_000
+_MEMO = ContentCache("statement evaluations", 20_000)
 
 def clear_memo() -> None:
     """Forget the remembered evaluations (see ``_MEMO``); the next analysis evaluates all.
@@ -61,6 +64,36 @@ class Evaluator:
         self._values: dict[str, object] = {}
         self._evaluating: set[str] = set()
         self._evaluated_all = False
+        self._fingerprints: dict[str, bytes] = {}
+        self._fingerprinting: set[str] = set()
+
+    def fingerprint(self, name: str) -> bytes:
+        """A digest of everything the value of ``name`` is computed from: the type and text of
+        its statement, the budget, and the kinds and fingerprints of the names it uses (a name
+        from another file: that file's fingerprint of it).  A statement that reads more than
+        that (say, a morphism reading the file's expectations) is fingerprinted with the whole
+        text of the file."""
+        fp = self._fingerprints.get(name)
+        if fp is not None:
+            return fp
+        st = self.defs.get(name)
+        if st is None:
+            parts = ("unknown", name)
+        elif isinstance(st, Imported):
+            parts = ("use", st.source_uri, st.source.evaluator.fingerprint(st.source_name))
+        elif name in self.in_cycle or name in self._fingerprinting or not isinstance(st, _MEMO_TYPES):
+            parts = ("file", self.text, name, self.engine.budget_limit)
+        else:
+            self._fingerprinting.add(name)       # a guard: fingerprints follow the same edges
+            try:
+                used = self.names.used.get(name, ())
+                parts = (type(st).__name__, self.text[st.span[0]:st.span[1]], self.engine.budget_limit,
+                         tuple((n, self.kind_of(n), self.fingerprint(n)) for n in used))
+            finally:
+                self._fingerprinting.discard(name)
+        fp = hashlib.blake2b(repr(parts).encode("utf-8", "surrogatepass"), digest_size=20).digest()
+        self._fingerprints[name] = fp
+        return fp
 
     # ------------------------------------------------------------------ evaluation
     def value(self, name: str):
@@ -104,18 +137,13 @@ class Evaluator:
         of the same statement text with the same values of the names it uses (see ``_MEMO``)."""
         if not isinstance(st, _MEMO_TYPES):
             return self._evaluate(st)
-        used = self.names.used.get(st.name.text, ())
-        # the values of the used names enter the key by identity (hashing them is slow); the
-        # entry keeps them alive, so an id in a key always means that very object
-        dep_values = tuple(self.value(n) for n in used)
-        key = (type(st), self.text[st.span[0]:st.span[1]], self.engine.budget_limit,
-               tuple((n, self.kind_of(n), id(v)) for n, v in zip(used, dep_values)))
+        for n in self.names.used.get(st.name.text, ()):
+            self.value(n)                      # what it uses reports its own diagnostics first
+        key = self.fingerprint(st.name.text)
         hit = _MEMO.get(key)
         base = st.span[0]
         if hit is not None:
-            _MEMO.pop(key, None)               # most recently used last
-            _MEMO[key] = hit
-            val, diags, _ = hit
+            val, diags = hit
             for d in diags:
                 self.sink.add_diagnostic(shifted(d, base) if base else d)
             if val is None:
@@ -134,12 +162,7 @@ class Evaluator:
         lo, hi = st.span
         if all(lo <= sp[0] and sp[1] <= hi for d in own
                for sp in [d.span, *(r.span for r in d.related), *(f.span for f in d.fixes)]):
-            _MEMO[key] = (val, tuple(shifted(d, -base) if base else d for d in own), dep_values)
-            if len(_MEMO) > _MEMO_MAX:
-                try:
-                    del _MEMO[next(iter(_MEMO))]
-                except (KeyError, RuntimeError, StopIteration):   # another thread got there first
-                    pass
+            _MEMO.put(key, (val, tuple(shifted(d, -base) if base else d for d in own)))
         if val is None:
             raise EvalError("evaluation failed")
         return val

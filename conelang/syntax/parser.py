@@ -12,13 +12,13 @@ from __future__ import annotations
 
 import functools
 import re
-from collections import OrderedDict
 from fractions import Fraction
 from importlib import resources
 
 from lark import Lark, Token, Tree
 from lark.exceptions import UnexpectedCharacters, UnexpectedInput, UnexpectedToken
 
+from ..cache import ContentCache
 from . import ast as A
 from .text import closest_word
 
@@ -55,15 +55,14 @@ def _parser() -> Lark:
     return Lark(grammar_text(), parser="lalr", propagate_positions=True, maybe_placeholders=False)
 
 
-_TREES: "OrderedDict[str, Tree]" = OrderedDict()
-# the typed statements below are what an edit reuses; a tree is needed again only when its
-# statement could not be built (or its typed nodes were evicted), so few trees are kept
-_TREES_MAX = 2_000
-_BUILT_MAX = 50_000
+# parse trees by statement text: the typed statements below are what an edit reuses; a tree is
+# needed again only when its statement could not be built (or its typed nodes were evicted), so
+# few trees are kept
+_TREES = ContentCache("parse trees", 2_000)
 # typed statements by their text, with the offset they were built at: nodes are immutable, so a
 # statement that did not change is shared between successive parses of an edited file, and one
 # that only moved (an edit above it) is a shifted copy, which is much cheaper than building it
-_BUILT: "OrderedDict[str, tuple[object, int]]" = OrderedDict()
+_BUILT = ContentCache("typed statements", 50_000)
 
 
 def clear_caches() -> None:
@@ -80,13 +79,9 @@ def _parse_piece(piece: str) -> Tree:
     """Parse one statement's text, remembering the tree: when a file is edited, every statement
     but the edited one is found here (positions in the tree are relative to the piece)."""
     tree = _TREES.get(piece)
-    if tree is not None:
-        _TREES.move_to_end(piece)
-        return tree
-    tree = _parser().parse(piece)
-    _TREES[piece] = tree
-    if len(_TREES) > _TREES_MAX:
-        _TREES.popitem(last=False)
+    if tree is None:
+        tree = _parser().parse(piece)
+        _TREES.put(piece, tree)
     return tree
 
 
@@ -183,8 +178,7 @@ def parse(text: str) -> A.Module:
             built, at = hit
             if at != start:
                 built = shift_node(built, start - at)
-                _BUILT[piece] = (built, start)
-            _BUILT.move_to_end(piece)
+                _BUILT.put(piece, (built, start))
             module.statements.append(built)
             continue
         try:
@@ -199,9 +193,7 @@ def parse(text: str) -> A.Module:
         try:
             built = _Builder(start).statement(tree.children[0])
             module.statements.append(built)
-            _BUILT[piece] = (built, start)
-            if len(_BUILT) > _BUILT_MAX:
-                _BUILT.popitem(last=False)
+            _BUILT.put(piece, (built, start))
         except _BuildError as exc:
             module.errors.append(A.SyntaxError_(exc.message, exc.span, (start, end), _defined_name(piece)))
         except RecursionError:
