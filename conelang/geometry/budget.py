@@ -1,10 +1,10 @@
 """Work budgets for computations that can explode.
 
 A :class:`Budget` counts abstract work units.  Heavy algorithms call :meth:`Budget.tick`
-inside their loops; when the count passes ``limit`` a :class:`BudgetExceeded` is raised whose
-message names the computation that was too large.  A budget can also be cancelled from
-outside (the language server does this when the text changes): the next ``tick`` raises
-:class:`Cancelled`.
+inside their loops; when the count passes ``limit`` a :class:`BudgetExceeded` is raised that
+names the computation that was too large (``what``, a short noun phrase, and ``detail``).  A
+budget can also be cancelled from outside (the language server does this when the text
+changes): the next ``tick`` raises :class:`Cancelled`.
 
 >>> b = Budget(limit=10)
 >>> b.tick(5, "example")
@@ -29,10 +29,7 @@ class BudgetExceeded(Exception):
         self.limit = limit
         self.detail = detail
         self.needed = needed       # the estimated total, when the refusal came from an estimate
-        msg = f"{what} is too large for the work budget of {limit} steps"
-        if detail:
-            msg += f" ({detail})"
-        super().__init__(msg)
+        super().__init__(what, limit, detail)      # worded by semantics.forms.budget_message
 
 
 class Cancelled(Exception):

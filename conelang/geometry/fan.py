@@ -42,10 +42,10 @@ True
 """
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from fractions import Fraction
 from math import gcd
-from typing import Callable, Sequence
+from typing import Sequence
 
 from . import linalg
 from .budget import Budget, ensure
@@ -65,14 +65,6 @@ ERROR_CODES = frozenset({"fan-duplicate-ray", "fan-not-pointed", "fan-not-ray", 
 WARNING_CODES = frozenset({"fan-unused-ray", "fan-redundant-cone"})
 
 
-def _fmt_default(v: Sequence) -> str:
-    return "(" + ", ".join(str(x) for x in v) + ")"
-
-
-def _idx(cone: Sequence[int]) -> str:
-    return "[" + " ".join(str(i + 1) for i in cone) + "]"
-
-
 # ---------------------------------------------------------------------------------------------
 # validity
 
@@ -88,11 +80,12 @@ class FanProblem:
     ``cone`` and ``other`` whose relative interiors contain the overlap witness); ``meet`` are
     the rays of the intersection of two overlapping cones.
 
+    The wording of each problem is made by the analysis
+    (:func:`conelang.semantics.forms.fan_problem_message`); here it is data only.
+
     >>> p = check_fan([(1, 0), (0, 1), (1, 1)], [(0, 1), (2,)], 2).problems[0]
-    >>> p.code, p.cone, p.other
-    ('fan-overlap', 1, 0)
-    >>> print(p.message())
-    cones [3] and [1 2] do not meet in a common face: their intersection cone((1, 1)) is not a face of [1 2]; e.g. the vector (1, 1) lies in both cones but in no common face (it is in the relative interior of [3] and of [1 2])
+    >>> p.code, p.cone, p.other, p.not_face_of, p.vector, p.meet, p.face, p.other_face
+    ('fan-overlap', 1, 0, 0, (1, 1), ((1, 1),), (2,), (0, 1))
     """
 
     code: str
@@ -111,39 +104,6 @@ class FanProblem:
     def is_error(self) -> bool:
         """True for problems that make the fan invalid (warnings otherwise)."""
         return self.code in ERROR_CODES
-
-    def message(self, fmt: Callable[[Sequence[int]], str] = _fmt_default) -> str:
-        """An English sentence; ``fmt`` formats a lattice vector (e.g. in user coordinates)."""
-        c = self.cones
-        name = lambda i: _idx(c[i])
-        if self.code == "fan-duplicate-ray":
-            return (f"ray {self.ray + 1} is the same ray as ray {self.other_ray + 1}: a fan lists each ray once")
-        if self.code == "fan-unused-ray":
-            return (f"ray {self.ray + 1} is in no listed cone; it is a one-dimensional cone of the fan by itself")
-        if self.code == "fan-not-pointed":
-            return (f"cone {name(self.cone)} is not pointed: it contains the line through "
-                    f"{fmt(self.vector)}, so it is not a cone of a fan")
-        if self.code == "fan-not-ray":
-            return (f"ray {self.ray + 1} is not an extremal ray of cone {name(self.cone)}: it lies in the "
-                    f"relative interior of its face {_idx(self.face)}; list only the extremal rays")
-        if self.code == "fan-redundant-cone":
-            if c[self.cone] == c[self.other] or set(c[self.cone]) == set(c[self.other]):
-                return f"cone {name(self.cone)} is listed twice"
-            return (f"cone {name(self.cone)} is a face of cone {name(self.other)}, which is listed: "
-                    f"faces of listed cones are in the fan anyway")
-        if self.code == "fan-overlap":
-            meet = "cone(" + ", ".join(fmt(r) for r in self.meet) + ")" if self.meet else "{0}"
-
-            def inside(face, ci):
-                if set(face) == set(c[ci]):
-                    return name(ci)
-                return f"its face {_idx(face)} of {name(ci)}"
-
-            return (f"cones {name(self.cone)} and {name(self.other)} do not meet in a common face: their "
-                    f"intersection {meet} is not a face of {name(self.not_face_of)}; e.g. the vector "
-                    f"{fmt(self.vector)} lies in both cones but in no common face (it is in the relative "
-                    f"interior of {inside(self.face, self.cone)} and of {inside(self.other_face, self.other)})")
-        return self.code
 
 
 @dataclass(frozen=True)
@@ -229,7 +189,9 @@ def check_fan(rays: Sequence[Sequence[int]], cones: Sequence[Sequence[int]], d: 
 
     Rays are replaced by their primitive vectors; repeated indices in a cone are ignored.
     With ``trusted=True`` the pairwise intersections are not checked (for fans built by
-    this module, e.g. resolutions, which are fans by construction).
+    this module, e.g. resolutions, which are fans by construction).  The steps: the rays
+    (:func:`_ray_problems`), each cone alone (:func:`_cone_problems`), cones that are faces
+    of others (:func:`_redundant_cones`), then pairs of cones (:func:`_overlaps`).
 
     >>> ok = check_fan([(1, 0), (0, 1), (-1, -1)], [(0, 1), (1, 2), (2, 0)], 2)
     >>> ok.valid, ok.maximal
@@ -241,6 +203,19 @@ def check_fan(rays: Sequence[Sequence[int]], cones: Sequence[Sequence[int]], d: 
     ['fan-not-pointed']
     """
     budget = ensure(budget)
+    rays = _checked_rays(rays, cones, d)
+    problems, listed = _ray_problems(rays, cones)
+    geo, sound = _cone_problems(rays, listed, d, budget, problems)
+    redundant = _redundant_cones(sound, listed, geo, problems)
+    if not trusted:
+        _overlaps([i for i in sound if i not in redundant], rays, listed, geo, d, budget, problems)
+    problems = [replace(p, cones=listed) for p in problems]
+    maximal = tuple(i for i in range(len(listed)) if i not in redundant)
+    return FanCheck(d, rays, listed, tuple(geo), maximal, tuple(problems))
+
+
+def _checked_rays(rays, cones, d: int) -> tuple[Vec, ...]:
+    """The primitive rays, after checking their lengths and the indices of the cones."""
     rays = tuple(primitive(r) for r in rays)
     for r in rays:
         if len(r) != d:
@@ -249,6 +224,12 @@ def check_fan(rays: Sequence[Sequence[int]], cones: Sequence[Sequence[int]], d: 
         for i in cidx:
             if not 0 <= i < len(rays):
                 raise ValueError(f"ray index {i} out of range")
+    return rays
+
+
+def _ray_problems(rays: tuple[Vec, ...], cones) -> tuple[list[FanProblem], tuple[tuple[int, ...], ...]]:
+    """Duplicate and unused rays, and the list of cones: the given ones (repeated indices
+    dropped) and a one-ray cone for each unused ray."""
     problems: list[FanProblem] = []
     first: dict[Vec, int] = {}
     for i, r in enumerate(rays):
@@ -263,10 +244,14 @@ def check_fan(rays: Sequence[Sequence[int]], cones: Sequence[Sequence[int]], d: 
         if i not in used and i not in dups:
             problems.append(FanProblem("fan-unused-ray", ray=i))
             listed.append((i,))
-    listed_t = tuple(listed)
-    geo = []
-    sound = []           # cones that are pointed and whose listed rays are extremal
-    for ci, c in enumerate(listed_t):
+    return problems, tuple(listed)
+
+
+def _cone_problems(rays, listed, d: int, budget: Budget, problems: list) -> tuple[list[Cone], list[int]]:
+    """The cone spanned by each listed cone, and the indices of the sound ones (pointed, with
+    extremal listed rays); the others' problems are appended to ``problems``."""
+    geo, sound = [], []
+    for ci, c in enumerate(listed):
         budget.tick(len(c) * d + 1, "fan check")
         g = simplicial_cone([rays[i] for i in c], d) if len(c) == d else None
         if g is None:
@@ -277,20 +262,21 @@ def check_fan(rays: Sequence[Sequence[int]], cones: Sequence[Sequence[int]], d: 
             problems.append(FanProblem("fan-not-pointed", cone=ci, vector=line))
             continue
         extremal = set(g.rays)
-        ok = True
-        local = {}
+        local: dict[Vec, int] = {}
         for i in c:
             local.setdefault(rays[i], i)
-        for i in c:
-            if rays[i] not in extremal:
-                ok = False
-                problems.append(FanProblem("fan-not-ray", cone=ci, ray=i,
-                                           face=_carrier(g, rays[i], local)))
-        if ok:
+        bad = [i for i in c if rays[i] not in extremal]
+        problems.extend(FanProblem("fan-not-ray", cone=ci, ray=i, face=_carrier(g, rays[i], local))
+                        for i in bad)
+        if not bad:
             sound.append(ci)
-    # redundant cones: faces of other listed cones (same ray sets first)
+    return geo, sound
+
+
+def _redundant_cones(sound, listed, geo, problems: list) -> set[int]:
+    """Sound cones that are faces of other listed cones (same ray sets first)."""
     redundant: set[int] = set()
-    sets = [frozenset(c) for c in listed_t]
+    sets = [frozenset(c) for c in listed]
     for a in sound:
         for b in sound:
             if a == b or b in redundant:
@@ -300,31 +286,31 @@ def check_fan(rays: Sequence[Sequence[int]], cones: Sequence[Sequence[int]], d: 
                     redundant.add(a)
                     problems.append(FanProblem("fan-redundant-cone", cone=a, other=b))
                     break
-    cand = [i for i in sound if i not in redundant]
-    if not trusted:
-        for x in range(len(cand)):
-            for y in range(x):
-                i, j = cand[x], cand[y]
-                budget.tick(len(listed_t[i]) * len(listed_t[j]) * d, "fan check",
-                            f"{len(cand)} cones to intersect pairwise")
-                gi, gj = geo[i], geo[j]
-                if _separated(gi, gj):
-                    continue
-                meet = intersection(gi, gj, budget)
-                fi, fj = is_face(gi, meet), is_face(gj, meet)
-                if fi and fj:
-                    continue
-                w = relative_interior_point(meet)
-                li = {rays[k]: k for k in listed_t[i]}
-                lj = {rays[k]: k for k in listed_t[j]}
-                problems.append(FanProblem(
-                    "fan-overlap", cone=i, other=j, vector=w, face=_carrier(gi, w, li),
-                    other_face=_carrier(gj, w, lj), meet=meet.rays,
-                    not_face_of=j if fi else i))
-    problems = [FanProblem(p.code, p.cone, p.other, p.ray, p.other_ray, p.vector, p.face,
-                           p.other_face, p.meet, listed_t, p.not_face_of) for p in problems]
-    maximal = tuple(i for i in range(len(listed_t)) if i not in redundant)
-    return FanCheck(d, rays, listed_t, tuple(geo), maximal, tuple(problems))
+    return redundant
+
+
+def _overlaps(cand, rays, listed, geo, d: int, budget: Budget, problems: list) -> None:
+    """Pairs of the candidate cones that do not meet in a common face, with a witness in the
+    relative interior of their intersection (see the module docstring)."""
+    for x in range(len(cand)):
+        for y in range(x):
+            i, j = cand[x], cand[y]
+            budget.tick(len(listed[i]) * len(listed[j]) * d, "fan check",
+                        f"{len(cand)} cones to intersect pairwise")
+            gi, gj = geo[i], geo[j]
+            if _separated(gi, gj):
+                continue
+            meet = intersection(gi, gj, budget)
+            fi, fj = is_face(gi, meet), is_face(gj, meet)
+            if fi and fj:
+                continue
+            w = relative_interior_point(meet)
+            li = {rays[k]: k for k in listed[i]}
+            lj = {rays[k]: k for k in listed[j]}
+            problems.append(FanProblem(
+                "fan-overlap", cone=i, other=j, vector=w, face=_carrier(gi, w, li),
+                other_face=_carrier(gj, w, lj), meet=meet.rays,
+                not_face_of=j if fi else i))
 
 
 # ---------------------------------------------------------------------------------------------
@@ -529,7 +515,7 @@ def fan_invariants(f: FanCheck, budget: Budget | None = None) -> FanInvariants:
     (True, True, (4, 4, 1), (2, ()), (0, -2, 0, 2))
     """
     if not f.valid:
-        raise ValueError("not a fan: " + f.errors[0].message())
+        raise ValueError(f"not a fan ({f.errors[0].code})")
     budget = ensure(budget)
     d = f.ambient_dim
     levels = cones_by_dimension(f, budget)

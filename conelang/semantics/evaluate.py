@@ -26,7 +26,8 @@ from ..syntax import ast as A
 from . import values as V
 from .diagnostics import EvalError, Fix, Related, shifted
 from . import imports as I
-from .forms import budget_advice, fan_cone_label, fmt_vec, violation_message
+from .forms import (budget_advice, budget_message, fan_cone_label, fan_problem_message, fmt_vec,
+                    violation_message)
 from .imports import Imported
 from .names import KIND_ARTICLE
 
@@ -119,7 +120,7 @@ class Evaluator:
             if isinstance(exc, Cancelled):
                 self._evaluating.discard(name)
                 raise
-            self.sink.error(st.name.span, "budget", f"{exc}; {budget_advice(exc)}")
+            self.sink.error(st.name.span, "budget", f"{budget_message(exc)}; {budget_advice(exc)}")
             val = None
         except RecursionError:
             self.sink.error(st.name.span, "too-deep", f"the definition of '{name}' is nested too deeply")
@@ -527,7 +528,7 @@ class Evaluator:
         demo = any(ex.subject.text == st.name.text and ex.negated and ex.prop is not None
                    and ex.prop.text == "valid" and ex.value is None for ex in self.expects)
         for p in check.problems:
-            msg = p.message(fmt)
+            msg = fan_problem_message(p, fmt)
             related = ()
             if p.code in ("fan-duplicate-ray", "fan-unused-ray"):
                 span = ray_nodes[p.ray].span
@@ -585,7 +586,7 @@ class Evaluator:
             if not check.valid:
                 self._fail(st.base.span, "invalid-fan",
                            f"'{st.base.text}' is not a fan, so it cannot be subdivided: "
-                           + check.errors[0].message(lambda x: fmt_vec(space.from_coords(x))))
+                           + fan_problem_message(check.errors[0], lambda x: fmt_vec(space.from_coords(x))))
             rays, cones = base.rays, tuple(check.cones[i] for i in check.maximal)
         if not st.vectors:
             self._fail(st.span, "missing-description", "'refine' needs at least one vector after 'by'")

@@ -17,7 +17,7 @@ from .engine import NotAvailable, NotPointed
 from .properties import group_string
 from .engine import guard as _guard
 from .imports import Imported
-from .forms import jnum, jvec  # noqa: F401 (also used by the renderers' callers)
+from .forms import fan_problem_message, fmt_vec, jnum, jvec  # noqa: F401 (jnum, jvec: also used by the renderers' callers)
 
 
 def _user(space: V.Space, coords) -> list:
@@ -154,7 +154,9 @@ def morphism_facts(analysis, value: V.MorphismValue, heavy: bool = True) -> dict
     an incompatible one gets ``violation`` (the message) and nothing else.  ``lattice_matrix``
     is the map in lattice coordinates (useful for a composite ``g ∘ f``, which has no map
     definition of its own); the heavy part adds ``pullbacks``, ``pullback_exponents``,
-    ``torus``, ``kinds`` and ``degree`` (see :meth:`Engine.morphism`)."""
+    ``torus``, ``kinds`` and ``degree`` (from :meth:`Engine.morphism`): ``pullbacks`` the
+    target coordinates w_j as monomials in the source coordinates z_i, ``torus`` t'_k as
+    Laurent monomials in t_i."""
     from .properties import violation_message
     violation = violation_message(value)
     out = {"kind": "morphism", "map": value.map_name, "source": value.source_name,
@@ -168,7 +170,12 @@ def morphism_facts(analysis, value: V.MorphismValue, heavy: bool = True) -> dict
     errors: list[str] = []
     mor = _guard(errors, "induced morphism", lambda: analysis.engine.morphism(value))
     if mor is not None:
-        out.update(mor)
+        kinds, exps = mor
+        out.update({"pullbacks": [gmaps.monomial_string(a) for a in exps],
+                    "pullback_exponents": [list(a) for a in exps],
+                    "torus": list(gmaps.torus_map(value.map.matrix, value.map.source.rank)),
+                    "kinds": list(kinds.kinds()),
+                    "degree": kinds.degree})
     if errors:
         out["errors"] = errors
     return out
@@ -203,7 +210,6 @@ def fan_facts(analysis, value: V.FanValue, heavy: bool = True) -> dict:
     """Facts of a fan: validity (with the problems of an invalid one), completeness,
     smoothness, orbits, Picard and class groups, self-intersections (smooth surfaces), the
     data of a resolution (``resolves``), and the affine charts of the maximal cones."""
-    from .forms import fmt_vec
     s = value.space
     out = {"kind": "fan", "lattice": s.label,
            "rays": [_user(s, r) for r in value.rays],
@@ -217,7 +223,7 @@ def fan_facts(analysis, value: V.FanValue, heavy: bool = True) -> dict:
         out["valid"] = check.valid
         if not check.valid:
             fmt = lambda x: fmt_vec(s.from_coords(x))
-            out["problems"] = [{"code": p.code, "message": p.message(fmt)} for p in check.errors]
+            out["problems"] = [{"code": p.code, "message": fan_problem_message(p, fmt)} for p in check.errors]
     if heavy and check is not None and check.valid:
         inv = _guard(errors, "fan invariants", lambda: eng.fan_facts(value))
         if inv is not None:

@@ -40,6 +40,46 @@ def fan_cone_label(indices) -> str:
     return "[" + " ".join(str(i + 1) for i in indices) + "]"
 
 
+def fan_problem_message(p, fmt=None) -> str:
+    """The sentence of a :class:`conelang.geometry.fan.FanProblem`: rays and cones are
+    numbered from 1, ``fmt`` writes a lattice vector (default: as it is; the analysis passes
+    one that writes it in user coordinates).
+
+    >>> from conelang.geometry.fan import check_fan
+    >>> print(fan_problem_message(check_fan([(1, 0), (0, 1), (1, 1)], [(0, 1), (2,)], 2).problems[0]))
+    cones [3] and [1 2] do not meet in a common face: their intersection cone((1, 1)) is not a face of [1 2]; e.g. the vector (1, 1) lies in both cones but in no common face (it is in the relative interior of [3] and of [1 2])
+    """
+    fmt = fmt or fmt_vec
+    c = p.cones
+    name = lambda i: fan_cone_label(c[i])
+    if p.code == "fan-duplicate-ray":
+        return f"ray {p.ray + 1} is the same ray as ray {p.other_ray + 1}: a fan lists each ray once"
+    if p.code == "fan-unused-ray":
+        return f"ray {p.ray + 1} is in no listed cone; it is a one-dimensional cone of the fan by itself"
+    if p.code == "fan-not-pointed":
+        return (f"cone {name(p.cone)} is not pointed: it contains the line through "
+                f"{fmt(p.vector)}, so it is not a cone of a fan")
+    if p.code == "fan-not-ray":
+        return (f"ray {p.ray + 1} is not an extremal ray of cone {name(p.cone)}: it lies in the "
+                f"relative interior of its face {fan_cone_label(p.face)}; list only the extremal rays")
+    if p.code == "fan-redundant-cone":
+        if c[p.cone] == c[p.other] or set(c[p.cone]) == set(c[p.other]):
+            return f"cone {name(p.cone)} is listed twice"
+        return (f"cone {name(p.cone)} is a face of cone {name(p.other)}, which is listed: "
+                f"faces of listed cones are in the fan anyway")
+    if p.code == "fan-overlap":
+        meet = "cone(" + ", ".join(fmt(r) for r in p.meet) + ")" if p.meet else "{0}"
+
+        def inside(face, ci):
+            return name(ci) if set(face) == set(c[ci]) else f"its face {fan_cone_label(face)} of {name(ci)}"
+
+        return (f"cones {name(p.cone)} and {name(p.other)} do not meet in a common face: their "
+                f"intersection {meet} is not a face of {name(p.not_face_of)}; e.g. the vector "
+                f"{fmt(p.vector)} lies in both cones but in no common face (it is in the relative "
+                f"interior of {inside(p.face, p.cone)} and of {inside(p.other_face, p.other)})")
+    return p.code
+
+
 def group_string(g) -> str:
     """An abelian group ``(free rank, invariant factors)`` in invariant-factor form.
 
@@ -86,6 +126,18 @@ def violation_message(v) -> str | None:
                 f"<{nv}, {iv}> = {val} < 0")
     return (f"'{v.map_name}' does not send '{v.source_name}' into '{v.target_name}': it sends the ray "
             f"{rv} of '{v.source_name}' to {iv}, {what}")
+
+
+def budget_message(exc) -> str:
+    """What a :class:`~conelang.geometry.budget.BudgetExceeded` says: the computation, the
+    limit and what was too large (the advice, :func:`budget_advice`, follows it).
+
+    >>> from conelang.geometry.budget import BudgetExceeded
+    >>> budget_message(BudgetExceeded("Hilbert basis", 1000, "about 5000 lattice points"))
+    'Hilbert basis is too large for the work budget of 1000 steps (about 5000 lattice points)'
+    """
+    msg = f"{exc.what} is too large for the work budget of {exc.limit} steps"
+    return msg + f" ({exc.detail})" if exc.detail else msg
 
 
 def budget_advice(exc) -> str:

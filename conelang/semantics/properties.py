@@ -26,7 +26,8 @@ from ..syntax import ast as A
 from ..syntax.text import closest_word
 from .diagnostics import EvalError, Related
 from .engine import NotAvailable, NotPointed
-from .forms import budget_advice, fmt_vec, group_string, parse_group, show_result, violation_message  # noqa: F401 (also used by facts)
+from .forms import (budget_advice, budget_message, fmt_vec, group_string, parse_group,  # noqa: F401 (also used by facts)
+                    show_result, violation_message)
 
 BOOL, INT, GROUP, OPT_INT, INTS = "yes/no", "integer", "abelian group", "integer or none", "list of integers"
 NUMS, NUM = "list of numbers", "number"
@@ -391,7 +392,7 @@ def check_expect(analysis, ex: A.Expect) -> None:
                    related=(Related(analysis.defs[subject].span, f"'{subject}' is defined here"),))
         return
     except BudgetExceeded as exc:
-        sink.error(ex.span, "budget", f"cannot check '{pname}' of '{subject}': {exc}; {budget_advice(exc)}")
+        sink.error(ex.span, "budget", f"cannot check '{pname}' of '{subject}': {budget_message(exc)}; {budget_advice(exc)}")
         return
     except NotAvailable as exc:
         sink.error(ex.span, getattr(exc, "code", "not-computed-yet"), f"cannot check '{pname}' of '{subject}': {exc}")

@@ -18,6 +18,7 @@ from hypothesis import assume, given, settings, strategies as st
 import conelang.geometry.fan as fan_mod
 from conelang.geometry import lattice as glat
 from conelang.geometry.budget import Budget, BudgetExceeded
+from conelang.semantics.forms import fan_problem_message
 from conelang.geometry.cone import cone_from_rays, contains
 from conelang.geometry.fan import (
     cartier_basis, check_fan, class_group, fan_invariants, hirzebruch_jung, picard_group, resolve,
@@ -171,7 +172,7 @@ def test_overlapping_cones_are_named():
     w = p.vector
     assert in_plane_cone(w, [(1, 0), (0, 1)]) and in_plane_cone(w, [(0, 1), (1, 1)])
     assert carrier_plane(w, [(1, 0), (0, 1)]) != carrier_plane(w, [(0, 1), (1, 1)])
-    msg = p.message()
+    msg = fan_problem_message(p)
     assert "[1 2]" in msg and "[2 3]" in msg
     with pytest.raises(ValueError):
         fan_invariants(f)
