@@ -78,7 +78,7 @@ __all__ = [
     "is_split_injective", "cokernel", "degree", "monomial_string", "laurent_string",
     "torus_map", "monoid_combination", "pullback_exponents", "compose_pullbacks",
     "InducedMorphism", "induced_morphism", "face_correspondence", "MorphismKinds", "classify",
-    "KIND_NAMES",
+    "KIND_NAMES", "Incompatible", "NotInMonoid",
 ]
 
 
@@ -402,14 +402,28 @@ def _combination(coeffs: Sequence[int], vecs: Sequence[Vec], d: int) -> Vec:
     return tuple(out)
 
 
-def _incompatible_error(matrix: Matrix, source: Cone, target: Cone) -> ValueError | None:
+class Incompatible(ValueError):
+    """The map does not send the source cone into the target cone.  ``violation`` is the
+    witness of :func:`first_violation` (ray, image, normal, value, is it an equation); the
+    analysis words it (``conelang.semantics.forms.violation_message``)."""
+
+    def __init__(self, violation):
+        self.violation = violation
+        super().__init__(*violation)
+
+
+class NotInMonoid(ValueError):
+    """``f^*(u)`` (``image``) is not a non-negative combination of the source generators."""
+
+    def __init__(self, u, image):
+        self.u, self.image = tuple(u), image
+        super().__init__(self.u, image)
+
+
+def _require_compatible(matrix: Matrix, source: Cone, target: Cone) -> None:
     bad = first_violation(matrix, source, target)
-    if bad is None:
-        return None
-    ray, img, normal, val, is_eq = bad
-    rel = "≠ 0" if is_eq else "< 0"
-    return ValueError(f"the map does not send the source cone into the target cone: the ray {ray} "
-                      f"goes to {img} and <{normal}, {img}> = {val} {rel}")
+    if bad is not None:
+        raise Incompatible(bad)
 
 
 def pullback_exponents(matrix: Matrix, source: Cone, target: Cone,
@@ -430,9 +444,7 @@ def pullback_exponents(matrix: Matrix, source: Cone, target: Cone,
     """
     from .monoid import decompose, hilbert_basis
     budget = ensure(budget)
-    err = _incompatible_error(matrix, source, target)
-    if err is not None:
-        raise err
+    _require_compatible(matrix, source, target)
     n = source.ambient_dim
     sd = dual(source)
     if source_generators is None:
@@ -451,8 +463,7 @@ def pullback_exponents(matrix: Matrix, source: Cone, target: Cone,
         if a is None or _combination(a, src, n) != p:
             a = monoid_combination(p, src, budget)
         if a is None:
-            raise ValueError(f"f^*{tuple(u)} = {p} is not a non-negative combination of the "
-                             f"source generators")
+            raise NotInMonoid(u, p)
         out.append(a)
     return tuple(out)
 
@@ -511,9 +522,7 @@ def induced_morphism(matrix: Matrix, source: Cone, target: Cone,
     """
     from .monoid import hilbert_basis
     budget = ensure(budget)
-    err = _incompatible_error(matrix, source, target)
-    if err is not None:
-        raise err
+    _require_compatible(matrix, source, target)
     sg = hilbert_basis(dual(source), budget)
     tg = hilbert_basis(dual(target), budget)
     exps = pullback_exponents(matrix, source, target, sg, tg, budget)
@@ -613,9 +622,7 @@ def classify(matrix: Matrix, source: Cone, target: Cone,
     (('quotient', 'finite', 'dominant', 'surjective', 'lattice_injective'), 2)
     """
     budget = ensure(budget)
-    err = _incompatible_error(matrix, source, target)
-    if err is not None:
-        raise err
+    _require_compatible(matrix, source, target)
     n, m = source.ambient_dim, target.ambient_dim
     matrix = tuple(tuple(r) for r in matrix)
     inj = is_injective(matrix, n)
