@@ -434,6 +434,10 @@ def smith(rows: Sequence[Sequence[int]], ncols: int | None = None
     """Smith normal form with transforms: ``(D, U, V)`` with ``U A V = D``, ``U`` (m x m) and
     ``V`` (n x n) unimodular, ``D`` diagonal with ``d1 | d2 | ... `` (nonnegative).
 
+    Pivot by pivot (:class:`_Smith`): bring the smallest nonzero entry of the rest to the
+    diagonal, clear its row and column by Euclidean steps, and when an entry of the rest is
+    not divisible by the pivot, add its row to the pivot's and start the pivot again.
+
     >>> A = [(2, 4), (6, 8)]
     >>> D, U, V = smith(A)
     >>> D
@@ -442,80 +446,105 @@ def smith(rows: Sequence[Sequence[int]], ncols: int | None = None
     True
     """
     n, A = _int_rows(rows, ncols)
-    m = len(A)
-    U = [[1 if i == j else 0 for j in range(m)] for i in range(m)]
-    V = [[1 if i == j else 0 for j in range(n)] for i in range(n)]
+    work = _Smith(A, n)
+    t = 0
+    while t < min(work.m, n) and work.pivot_smallest(t):
+        work.reduce_pivot(t)
+        t += 1
+    return tuple(map(tuple, work.A)), tuple(map(tuple, work.U)), tuple(map(tuple, work.V))
 
-    def swap_rows(i, j):
+
+class _Smith:
+    """The matrix of :func:`smith` under way, with the row transform ``U`` and the column
+    transform ``V`` applied along (``U A0 V = A`` throughout)."""
+
+    def __init__(self, A: list[list[int]], n: int):
+        self.A, self.n, self.m = A, n, len(A)
+        m = self.m
+        self.U = [[1 if i == j else 0 for j in range(m)] for i in range(m)]
+        self.V = [[1 if i == j else 0 for j in range(n)] for i in range(n)]
+
+    def swap_rows(self, i, j):
+        A, U = self.A, self.U
         A[i], A[j] = A[j], A[i]
         U[i], U[j] = U[j], U[i]
 
-    def swap_cols(i, j):
-        for row in A:
+    def swap_cols(self, i, j):
+        for row in self.A:
             row[i], row[j] = row[j], row[i]
-        for row in V:
+        for row in self.V:
             row[i], row[j] = row[j], row[i]
 
-    def add_row(dst, src, q):  # row_dst += q * row_src
+    def add_row(self, dst, src, q):  # row_dst += q * row_src
+        A, U = self.A, self.U
         A[dst] = [a + q * b for a, b in zip(A[dst], A[src])]
         U[dst] = [a + q * b for a, b in zip(U[dst], U[src])]
 
-    def add_col(dst, src, q):  # col_dst += q * col_src
-        for row in A:
+    def add_col(self, dst, src, q):  # col_dst += q * col_src
+        for row in self.A:
             row[dst] += q * row[src]
-        for row in V:
+        for row in self.V:
             row[dst] += q * row[src]
 
-    t = 0
-    while t < min(m, n):
-        best = None
-        for i in range(t, m):
-            for j in range(t, n):
+    def pivot_smallest(self, t: int) -> bool:
+        """Move the smallest nonzero entry of rows and columns ``>= t`` to ``(t, t)``; False
+        when they are all zero."""
+        A, best = self.A, None
+        for i in range(t, self.m):
+            for j in range(t, self.n):
                 if A[i][j] and (best is None or abs(A[i][j]) < abs(A[best[0]][best[1]])):
                     best = (i, j)
         if best is None:
-            break
-        swap_rows(t, best[0])
-        swap_cols(t, best[1])
+            return False
+        self.swap_rows(t, best[0])
+        self.swap_cols(t, best[1])
+        return True
+
+    def clear(self, t: int) -> bool:
+        """Reduce row and column ``t`` modulo the pivot; True when a remainder is left (it
+        is then moved to the pivot)."""
+        A, piv, changed = self.A, self.A[t][t], False
+        for i in range(t + 1, self.m):
+            if A[i][t]:
+                self.add_row(i, t, -(A[i][t] // piv))
+                changed = changed or bool(A[i][t])
+        for j in range(t + 1, self.n):
+            if A[t][j]:
+                self.add_col(j, t, -(A[t][j] // piv))
+                changed = changed or bool(A[t][j])
+        if changed:
+            # bring the smallest nonzero remainder of row/column t to the pivot
+            cand = [(abs(A[i][t]), i, t) for i in range(t + 1, self.m) if A[i][t]]
+            cand += [(abs(A[t][j]), t, j) for j in range(t + 1, self.n) if A[t][j]]
+            _, i, j = min(cand)
+            if j == t:
+                self.swap_rows(t, i)
+            else:
+                self.swap_cols(t, j)
+        return changed
+
+    def indivisible_row(self, t: int) -> int | None:
+        """A row below ``t`` with an entry (right of ``t``) that the pivot does not divide."""
+        A, piv = self.A, self.A[t][t]
+        for i in range(t + 1, self.m):
+            for j in range(t + 1, self.n):
+                if A[i][j] % piv:
+                    return i
+        return None
+
+    def reduce_pivot(self, t: int) -> None:
+        """Make ``(t, t)`` a positive pivot dividing every later entry, alone in its row and
+        column."""
         while True:
-            piv = A[t][t]
-            changed = False
-            for i in range(t + 1, m):
-                if A[i][t]:
-                    add_row(i, t, -(A[i][t] // piv))
-                    if A[i][t]:
-                        changed = True
-            for j in range(t + 1, n):
-                if A[t][j]:
-                    add_col(j, t, -(A[t][j] // piv))
-                    if A[t][j]:
-                        changed = True
-            if changed:
-                # bring the smallest nonzero remainder of row/column t to the pivot
-                cand = [(abs(A[i][t]), i, t) for i in range(t + 1, m) if A[i][t]]
-                cand += [(abs(A[t][j]), t, j) for j in range(t + 1, n) if A[t][j]]
-                _, i, j = min(cand)
-                if j == t:
-                    swap_rows(t, i)
-                else:
-                    swap_cols(t, j)
+            if self.clear(t):
                 continue
-            bad = None
-            for i in range(t + 1, m):
-                for j in range(t + 1, n):
-                    if A[i][j] % piv:
-                        bad = i
-                        break
-                if bad is not None:
-                    break
+            bad = self.indivisible_row(t)
             if bad is None:
                 break
-            add_row(t, bad, 1)
-        if A[t][t] < 0:
-            A[t] = [-x for x in A[t]]
-            U[t] = [-x for x in U[t]]
-        t += 1
-    return tuple(map(tuple, A)), tuple(map(tuple, U)), tuple(map(tuple, V))
+            self.add_row(t, bad, 1)
+        if self.A[t][t] < 0:
+            self.A[t] = [-x for x in self.A[t]]
+            self.U[t] = [-x for x in self.U[t]]
 
 
 # ---------------------------------------------------------------------------------------------

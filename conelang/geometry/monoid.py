@@ -620,23 +620,34 @@ def _hilbert_basis_dual(c: Cone, budget: Budget, what: str) -> list[Vec]:
 
     Points are represented by their facet values ``y = (<u_1, x>, ..., <u_m, x>)``.  Start
     with ``k`` independent facets, whose simplicial cone ``C_0`` has a small parallelepiped,
-    and its Hilbert basis.  Then add one facet ``λ`` at a time: with ``C`` the current cone
-    and ``H`` its Hilbert basis, close ``H`` under sums ``p + n`` (``λ(p) > 0 > λ(n)``),
-    keeping a sum only when no element ``g`` of the set satisfies ``s - g ∈ C`` with
-    ``λ(g)`` between 0 and ``λ(s)``.  The closed set contains the Hilbert bases of both
-    ``C ∩ {λ >= 0}`` and ``C ∩ {λ <= 0}`` (Pottier, "The Euclidean algorithm in dimension
-    n", ISSAC 1996; the induction on the degree is in DEVELOPERS.md), and the elements with
-    ``λ >= 0`` that are irreducible in ``C ∩ {λ >= 0}`` are its Hilbert basis.
+    and its Hilbert basis (:func:`_dual_start`).  Then add one facet ``λ`` at a time
+    (:func:`_add_facet`): with ``C`` the current cone and ``H`` its Hilbert basis, close ``H``
+    under sums ``p + n`` (``λ(p) > 0 > λ(n)``), keeping a sum only when no element ``g`` of
+    the set satisfies ``s - g ∈ C`` with ``λ(g)`` between 0 and ``λ(s)``.  The closed set
+    contains the Hilbert bases of both ``C ∩ {λ >= 0}`` and ``C ∩ {λ <= 0}`` (Pottier, "The
+    Euclidean algorithm in dimension n", ISSAC 1996; the induction on the degree is in
+    DEVELOPERS.md), and the elements with ``λ >= 0`` that are irreducible in
+    ``C ∩ {λ >= 0}`` are its Hilbert basis.  Last, the facet values go back to coordinates
+    (:func:`_from_facet_values`).
 
     >>> sq = cone_from_rays([(0, 0, 1), (1, 0, 1), (0, 1, 1), (1, 1, 1)], 3)
     >>> sorted(_hilbert_basis_dual(sq, Budget(None), "Hilbert basis"))
     [(0, 0, 1), (0, 1, 1), (1, 0, 1), (1, 1, 1)]
     """
+    facets = list(c.facets)
+    start, Y = _dual_start(c, facets, budget, what)
+    P = list(start)
+    for t in [j for j in range(len(facets)) if j not in start]:
+        Y = _add_facet(Y, P, t, budget, what)
+        P.append(t)
+    return _from_facet_values(Y, [facets[j] for j in start], start)
+
+
+def _dual_start(c: Cone, facets: list, budget: Budget, what: str):
+    """The start facets (indices) and the facet values of the Hilbert basis of their cone."""
     import numpy as np
 
-    k = c.ambient_dim
-    facets = list(c.facets)
-    m = len(facets)
+    k, m = c.ambient_dim, len(facets)
     start, index = _start_facets(c, budget)
     budget.check(index * (2 * k * k + m * k), what, f"a start cone with {index} lattice points")
     simplex = cone_from_rays(simplicial_rays([facets[j] for j in start]), k, budget=budget)
@@ -644,57 +655,86 @@ def _hilbert_basis_dual(c: Cone, budget: Budget, what: str) -> list[Vec]:
     Y = [[dot(u, h) for u in facets] for h in H0]
     if max((abs(x) for y in Y for x in y), default=0) > _DUAL_SAFE:
         raise _TooLarge
-    Y = np.array(Y, dtype=np.int64)
-    P = list(start)
-    for t in [j for j in range(m) if j not in start]:
-        cols = np.array(P)
+    return start, np.array(Y, dtype=np.int64)
 
-        def deg(A):
-            return A[:, cols].sum(axis=1) + np.abs(A[:, t])
 
-        G = Y
-        new_pos, new_neg = G[G[:, t] > 0], G[G[:, t] < 0]
-        old_pos = np.zeros((0, m), dtype=np.int64)
-        old_neg = np.zeros((0, m), dtype=np.int64)
-        while len(new_pos) or len(new_neg):
-            if np.abs(G).max() > _DUAL_SAFE:
-                raise _TooLarge
-            all_neg = np.concatenate([old_neg, new_neg])
-            pairs = [(A, B) for A, B in ((new_pos, all_neg), (old_pos, new_neg)) if len(A) and len(B)]
-            old_pos = np.concatenate([old_pos, new_pos])
-            old_neg = all_neg
-            if not pairs:
-                break
-            # the lowest-degree elements discard most sums at once; the rest is checked fully
-            quick = _Reducers(G[np.argsort(deg(G), kind="stable")[:_QUICK]], cols, t)
-            full = _Reducers(G, cols, t)
-            found = []
-            for A, B in pairs:
-                step = max(1, _PAIR_CHUNK // (len(B) * m))
-                for a0 in range(0, len(A), step):
-                    S = (A[a0:a0 + step, None, :] + B[None, :, :]).reshape(-1, m)
-                    budget.tick(len(S) * m // 64 + quick.cost(len(S)), what, f"{len(S)} candidate sums")
-                    S = S[~quick(S)]
-                    if len(S):
-                        budget.tick(full.cost(len(S)), what, f"{len(S)} candidate sums against {len(G)} elements")
-                        S = S[~full(S)]
-                    if len(S):
-                        found.append(S)
-            if not found:
-                break
-            S = np.unique(np.concatenate(found), axis=0)
-            # sums of the same round reduce each other
-            budget.tick(len(S) * len(S) // 256 + 1, what, f"{len(S)} new elements")
-            S = S[~_reducible_within(S, deg(S), cols, t)]
-            G = np.concatenate([G, S])
-            new_pos, new_neg = S[S[:, t] > 0], S[S[:, t] < 0]
-        # the Hilbert basis of C ∩ {λ >= 0}: the irreducible elements with λ >= 0
-        Hc = G[G[:, t] >= 0]
-        budget.tick(len(Hc) * len(Hc) // 256 + 1, what, f"{len(Hc)} elements")
-        Y = Hc[~_reducible_within(Hc, deg(Hc), cols, t)]
-        P.append(t)
-    # back to coordinates: x = F_S^{-1} y_S = (den F_S^{-1}) y_S / den
-    inv = linalg.inverse_rational([facets[j] for j in start])
+def _add_facet(Y, P: list, t: int, budget: Budget, what: str):
+    """From the Hilbert basis ``Y`` (facet values) of the cone of the facets ``P``, that of
+    the cone of ``P`` and ``t``: complete, then keep the irreducible elements with λ_t ≥ 0."""
+    import numpy as np
+
+    cols = np.array(P)
+    G = _complete(Y, cols, t, budget, what)
+    Hc = G[G[:, t] >= 0]
+    budget.tick(len(Hc) * len(Hc) // 256 + 1, what, f"{len(Hc)} elements")
+    return Hc[~_reducible_within(Hc, _degree(Hc, cols, t), cols, t)]
+
+
+def _degree(A, cols, t):
+    """The degree of the completion for the facet ``t``: Σ_{j ∈ cols} y_j + |y_t|."""
+    import numpy as np
+
+    return A[:, cols].sum(axis=1) + np.abs(A[:, t])
+
+
+def _complete(G, cols, t: int, budget: Budget, what: str):
+    """Close ``G`` under the irreducible sums ``p + n`` (``λ_t(p) > 0 > λ_t(n)``), round by
+    round: each round pairs the new elements of one side with all of the other side."""
+    import numpy as np
+
+    m = G.shape[1]
+    new_pos, new_neg = G[G[:, t] > 0], G[G[:, t] < 0]
+    old_pos = np.zeros((0, m), dtype=np.int64)
+    old_neg = np.zeros((0, m), dtype=np.int64)
+    while len(new_pos) or len(new_neg):
+        if np.abs(G).max() > _DUAL_SAFE:
+            raise _TooLarge
+        all_neg = np.concatenate([old_neg, new_neg])
+        pairs = [(A, B) for A, B in ((new_pos, all_neg), (old_pos, new_neg)) if len(A) and len(B)]
+        old_pos = np.concatenate([old_pos, new_pos])
+        old_neg = all_neg
+        if not pairs:
+            break
+        S = _new_sums(G, pairs, cols, t, budget, what)
+        if S is None:
+            break
+        G = np.concatenate([G, S])
+        new_pos, new_neg = S[S[:, t] > 0], S[S[:, t] < 0]
+    return G
+
+
+def _new_sums(G, pairs, cols, t: int, budget: Budget, what: str):
+    """The sums of one round that no element of ``G`` (nor another sum of the round)
+    reduces, or None when there is none."""
+    import numpy as np
+
+    m = G.shape[1]
+    # the lowest-degree elements discard most sums at once; the rest is checked fully
+    quick = _Reducers(G[np.argsort(_degree(G, cols, t), kind="stable")[:_QUICK]], cols, t)
+    full = _Reducers(G, cols, t)
+    found = []
+    for A, B in pairs:
+        step = max(1, _PAIR_CHUNK // (len(B) * m))
+        for a0 in range(0, len(A), step):
+            S = (A[a0:a0 + step, None, :] + B[None, :, :]).reshape(-1, m)
+            budget.tick(len(S) * m // 64 + quick.cost(len(S)), what, f"{len(S)} candidate sums")
+            S = S[~quick(S)]
+            if len(S):
+                budget.tick(full.cost(len(S)), what, f"{len(S)} candidate sums against {len(G)} elements")
+                S = S[~full(S)]
+            if len(S):
+                found.append(S)
+    if not found:
+        return None
+    S = np.unique(np.concatenate(found), axis=0)
+    # sums of the same round reduce each other
+    budget.tick(len(S) * len(S) // 256 + 1, what, f"{len(S)} new elements")
+    return S[~_reducible_within(S, _degree(S, cols, t), cols, t)]
+
+
+def _from_facet_values(Y, start_facets: list, start: list) -> list[Vec]:
+    """Back to coordinates: x = F_S^{-1} y_S = (den F_S^{-1}) y_S / den."""
+    inv = linalg.inverse_rational(start_facets)
     den = 1
     for row in inv:
         for x in row:
@@ -794,8 +834,8 @@ def decompose(point: Sequence[int], basis: Sequence[Sequence[int]], c: Cone,
     ``basis`` must consist of points of ``c``; its elements inside the lineality space must
     come with their negatives (as in :func:`hilbert_basis`).  The search is exact: greedy
     in decreasing degree of the pointed part, with backtracking (which is never needed when
-    ``basis`` contains a Hilbert basis).  Raises ``ValueError`` when ``point`` is not in ``c``
-    or is not a non-negative combination of ``basis``.
+    ``basis`` contains a Hilbert basis); see :class:`_Decomposition`.  Raises ``ValueError``
+    when ``point`` is not in ``c`` or is not a non-negative combination of ``basis``.
 
     >>> c = cone_from_rays([(1, 0), (1, 2)], 2)
     >>> decompose((3, 4), hilbert_basis(c), c)
@@ -803,7 +843,6 @@ def decompose(point: Sequence[int], basis: Sequence[Sequence[int]], c: Cone,
     >>> decompose((1, 0), [(1, 0), (-1, 0)], cone_from_rays([], 2, lineality=[(1, 0)]))
     (1, 0)
     """
-    budget = ensure(budget)
     point = tuple(point)
     basis = [tuple(b) for b in basis]
     if not contains(c, point):
@@ -811,94 +850,105 @@ def decompose(point: Sequence[int], basis: Sequence[Sequence[int]], c: Cone,
     for b in basis:
         if not contains(c, b):
             raise ValueError(f"basis element {b} is not in the cone")
-    m = pointed_model(c)
-    k = m.cone.ambient_dim
-    proj = [m.project(b) for b in basis]
-    units = [i for i, p in enumerate(proj) if not any(p)]
-    rest = [i for i, p in enumerate(proj) if any(p)]
-    w = grading(m.cone) if k else ()
-    rest.sort(key=lambda i: (-dot(w, proj[i]), i))
-    unit_vecs = [basis[i] for i in units]
-    neg_of = {}
-    for i in units:
-        negb = tuple(-x for x in basis[i])
-        j = next((j for j in units if basis[j] == negb), None)
-        if j is None:
-            raise ValueError(f"basis element {basis[i]} is a unit whose negative is missing")
-        neg_of[i] = j
-    target = m.project(point)
-    facets = m.cone.facets
-    d = c.ambient_dim
-    unit_mat = linalg.transpose(unit_vecs, d) if units else ()
-    # the remainder in L must lie in the group U generated by the units; when U = L every
-    # remainder does, and failures depend only on the pointed part (memoisation is sound)
-    units_span_all = (not m.lineality) or (
-        bool(units) and linalg.hnf(unit_vecs, d) == linalg.hnf(m.lineality, d))
+    work = _Decomposition(point, basis, c, ensure(budget))
+    res = work.greedy()
+    if res is None:
+        res = work.search(work.target, 0)
+    if res is None:
+        raise ValueError(f"{point} is not a non-negative integer combination of the basis")
+    return tuple(res.get(i, 0) for i in range(len(basis)))
 
-    def unit_part(chosen: dict[int, int]) -> dict[int, int] | None:
-        r = list(point)
+
+class _Decomposition:
+    """The data of one :func:`decompose`: the basis projected to the pointed part (the
+    elements projecting to 0 are the units, each with the index of its negative), sorted by
+    decreasing degree, and the pointed part of the point."""
+
+    def __init__(self, point: Vec, basis: list[Vec], c: Cone, budget: Budget):
+        self.point, self.basis, self.budget = point, basis, budget
+        m = pointed_model(c)
+        k = m.cone.ambient_dim
+        self.proj = proj = [m.project(b) for b in basis]
+        self.units = units = [i for i, p in enumerate(proj) if not any(p)]
+        w = grading(m.cone) if k else ()
+        self.rest = sorted((i for i, p in enumerate(proj) if any(p)), key=lambda i: (-dot(w, proj[i]), i))
+        self.neg_of = {i: self._negative(i) for i in units}
+        self.target = m.project(point)
+        self.facets = m.cone.facets
+        unit_vecs = [basis[i] for i in units]
+        d = c.ambient_dim
+        self.unit_mat = linalg.transpose(unit_vecs, d) if units else ()
+        # the remainder in L must lie in the group U generated by the units; when U = L every
+        # remainder does, and failures depend only on the pointed part (memoisation is sound)
+        self.units_span_all = (not m.lineality) or (
+            bool(units) and linalg.hnf(unit_vecs, d) == linalg.hnf(m.lineality, d))
+        self.failed: set = set()
+        self.stack: dict[int, int] = {}
+
+    def _negative(self, i: int) -> int:
+        negb = tuple(-x for x in self.basis[i])
+        j = next((j for j in self.units if self.basis[j] == negb), None)
+        if j is None:
+            raise ValueError(f"basis element {self.basis[i]} is a unit whose negative is missing")
+        return j
+
+    def inside(self, y: Vec) -> bool:
+        return all(dot(u, y) >= 0 for u in self.facets)
+
+    def unit_part(self, chosen: dict[int, int]) -> dict[int, int] | None:
+        """``chosen`` completed by units to a decomposition of the point, or None."""
+        r = list(self.point)
         for i, a in chosen.items():
-            r = [x - a * y for x, y in zip(r, basis[i])]
+            r = [x - a * y for x, y in zip(r, self.basis[i])]
         if not any(r):
             return dict(chosen)
-        if not units:
+        if not self.units:
             return None
-        y = linalg.solve_integer(unit_mat, tuple(r), len(units))
+        y = linalg.solve_integer(self.unit_mat, tuple(r), len(self.units))
         if y is None:
             return None
         coef = dict(chosen)
-        for i, yi in zip(units, y):
+        for i, yi in zip(self.units, y):
             if yi > 0:
                 coef[i] = coef.get(i, 0) + yi
             elif yi < 0:
-                coef[neg_of[i]] = coef.get(neg_of[i], 0) - yi
+                coef[self.neg_of[i]] = coef.get(self.neg_of[i], 0) - yi
         return coef
 
-    def inside(y: Vec) -> bool:
-        return all(dot(u, y) >= 0 for u in facets)
-
-    # 1. greedy (always succeeds when the basis contains a Hilbert basis)
-    x, chosen = target, {}
-    while any(x):
-        budget.tick(1, "decomposition into the Hilbert basis")
-        for i in rest:
-            y = tuple(a - b for a, b in zip(x, proj[i]))
-            if inside(y):
-                x = y
-                chosen[i] = chosen.get(i, 0) + 1
+    def greedy(self) -> dict[int, int] | None:
+        """Subtract the first element that keeps the rest in the cone, as long as one does
+        (always succeeds when the basis contains a Hilbert basis)."""
+        x, chosen = self.target, {}
+        while any(x):
+            self.budget.tick(1, "decomposition into the Hilbert basis")
+            for i in self.rest:
+                y = tuple(a - b for a, b in zip(x, self.proj[i]))
+                if self.inside(y):
+                    x = y
+                    chosen[i] = chosen.get(i, 0) + 1
+                    break
+            else:
                 break
-        else:
-            break
-    if not any(x):
-        res = unit_part(chosen)
-        if res is not None:
-            return tuple(res.get(i, 0) for i in range(len(basis)))
+        return None if any(x) else self.unit_part(chosen)
 
-    # 2. exhaustive search over multisets (indices non-decreasing along ``rest``)
-    failed: set = set()
-    stack: dict[int, int] = {}
-
-    def search(x: Vec, start: int) -> dict | None:
-        budget.tick(1, "decomposition into the Hilbert basis")
+    def search(self, x: Vec, start: int) -> dict | None:
+        """Exhaustive search over multisets (indices non-decreasing along ``rest``)."""
+        self.budget.tick(1, "decomposition into the Hilbert basis")
         if not any(x):
-            return unit_part(stack)
-        if units_span_all and (x, start) in failed:
+            return self.unit_part(self.stack)
+        if self.units_span_all and (x, start) in self.failed:
             return None
-        for pos in range(start, len(rest)):
-            i = rest[pos]
-            y = tuple(a - b for a, b in zip(x, proj[i]))
-            if inside(y):
+        stack = self.stack
+        for pos in range(start, len(self.rest)):
+            i = self.rest[pos]
+            y = tuple(a - b for a, b in zip(x, self.proj[i]))
+            if self.inside(y):
                 stack[i] = stack.get(i, 0) + 1
-                res = search(y, pos)
+                res = self.search(y, pos)
                 stack[i] -= 1
                 if not stack[i]:
                     del stack[i]
                 if res is not None:
                     return res
-        failed.add((x, start))
+        self.failed.add((x, start))
         return None
-
-    res = search(target, 0)
-    if res is None:
-        raise ValueError(f"{point} is not a non-negative integer combination of the basis")
-    return tuple(res.get(i, 0) for i in range(len(basis)))

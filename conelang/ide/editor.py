@@ -285,15 +285,30 @@ def use_path_prefix(text: str, offset: int) -> tuple[str, int] | None:
 
 def completions(a, offset: int) -> list[Suggestion]:
     """What may be typed at ``offset``: keywords at a statement start, names of the kind
-    expected at that place, property names after ``expect NAME``.
+    expected at that place, property names after ``expect NAME``.  The statement being
+    typed is found by :func:`_statement_so_far`; each statement keyword has its own step
+    (``_STATEMENT_ITEMS``).
 
     >>> from conelang.semantics.analysis import Analysis
     >>> a = Analysis("lattice N = Z^2\\nlattice P = Z^1\\ncone c in ")
     >>> [s.label for s in completions(a, len(a.text)) if s.kind == "lattice"]
     ['N', 'P']
     """
-    from ..semantics.properties import BOOL, properties_for
-    text = a.text
+    found = _statement_so_far(a.text, offset)
+    if found is None:
+        return []
+    at_line_start, kw, rest = found
+    statement_kw = _kw(*STATEMENT_KEYWORDS, sort="3")
+    if kw is None:
+        return statement_kw
+    step = _STATEMENT_ITEMS.get(kw)
+    out = step(a, kw, rest, rest[-1] if rest else None) if step else []
+    return out + statement_kw if at_line_start else out
+
+
+def _statement_so_far(text: str, offset: int):
+    """``(at_line_start, keyword, tokens after it)`` of the statement before the word at
+    ``offset`` (keyword None before any statement), or None inside a comment or a string."""
     offset = max(0, min(offset, len(text)))
     ws = offset
     while ws > 0 and (text[ws - 1].isalnum() or text[ws - 1] == "_"):
@@ -301,84 +316,116 @@ def completions(a, offset: int) -> list[Suggestion]:
     line_start = text.rfind("\n", 0, ws) + 1
     before_on_line = text[line_start:ws]
     if _in_comment_or_string(before_on_line):
-        return []
-    at_line_start = not before_on_line.strip()
+        return None
     toks = [t.text for t in tokenize(text[:ws]) if t.type not in ("WS", "NEWLINE", "COMMENT")]
     k = max((i for i, t in enumerate(toks) if t in STATEMENT_KEYWORDS), default=None)
-    statement_kw = _kw(*STATEMENT_KEYWORDS, sort="3")
     if k is None:
-        return statement_kw
-    kw, rest = toks[k], toks[k + 1:]
-    last = rest[-1] if rest else None
-    out: list[Suggestion] = []
-    if kw == "expect":
-        if not rest:
-            out = _names(a, None)
-        elif len(rest) == 1:
-            kind = a.kind_of(rest[0])
-            if kind is not None:
-                out = [Suggestion(p.name, "property", f"{p.type} — {p.doc}", sort="0") for p in properties_for(kind)]
-                out += _kw("not", sort="1")
-                if kind == "cone":
-                    out += [Suggestion("==", "keyword", "equality of cones", sort="1")]
-        elif len(rest) == 2 and last == "not":
-            kind = a.kind_of(rest[0])
-            if kind is not None:
-                out = [Suggestion(p.name, "property", p.doc, sort="0") for p in properties_for(kind) if p.type == BOOL]
-        elif len(rest) >= 2 and rest[1] == "==":
-            out = _cone_expr_items(a, rest[1:])
-    elif kw == "polytope":
-        if last == "in":
-            out = _names(a, "lattice") + _kw("dual") + [Suggestion("Z^", "snippet", "the standard lattice Z^d", sort="1")]
-        elif last == "{":
-            out = _kw("vertices", "halfspaces", sort="0")
-        elif len(rest) >= 2 and rest[1] == "=" and last in ("=", "+", "*", "(", ",", "polar", "face", "hull"):
-            out = _names(a, "polytope") + (_kw("polar", "face", "hull") if last != "hull" else [])
-    elif kw == "lattice":
-        if last in ("=", "dual", "("):
-            out = _names(a, "lattice") + [Suggestion("Z^", "snippet", "the standard lattice Z^d", sort="0")] + _kw("dual")
-    elif kw in ("cone", "characters", "fan", "map"):
-        inside = "{" in rest and "}" not in rest
-        if kw == "cone" and len(rest) >= 2 and rest[1] == "=":
-            out = _cone_expr_items(a, rest[1:])
-        elif kw == "fan" and len(rest) >= 2 and rest[1] == "=":
-            if last == "=":
-                out = _kw("resolve", "normal", "over", "star", "refine", sort="0")
-            elif last in ("normal", "over"):
-                out = _names(a, "polytope")
-            elif last in ("star", "refine"):
-                out = _names(a, "cone") + _names(a, "fan")
-            elif len(rest) == 4 and rest[2] in ("star", "refine"):
-                out = _kw("at" if rest[2] == "star" else "by", sort="0")
-            elif last in ("resolve", "crepant"):
-                out = _names(a, "cone") + (_kw("crepant", sort="1") if last == "resolve" else [])
-        elif not inside and "{" not in rest and last in ("in", "of", ":", "->", "→", "dual", "("):
-            out = _names(a, "lattice") + _kw("dual")
-            if last in ("in", "of", ":", "->", "→"):
-                out.append(Suggestion("Z^", "snippet", "the standard lattice Z^d", sort="1"))
-        elif inside and last in ("{", ")", "]") + tuple(SECTION_KEYWORDS):
-            if last in SECTION_KEYWORDS:
-                out = []
-            elif kw == "cone":
-                out = _kw("rays", "halfspaces", "equations", sort="0")
-            elif kw == "map" and last == "{":
-                out = _kw("images", "rows", sort="0")
-            elif kw == "fan":
-                out = _kw("rays", sort="0") if last == "{" else _kw("cones", sort="0")
-        elif len(rest) == 1 and kw in ("cone", "fan"):
-            out = _kw("in", sort="0")
-        elif len(rest) == 1 and kw == "characters":
-            out = _kw("of", sort="0")
-    elif kw == "morphism":
-        if last == "=":
-            out = _names(a, "map") + _names(a, "morphism", sort="1")
-        elif last in (":", "->", "→") and ":" in rest:
-            out = _names(a, "cone")
-        elif last in ("∘", "after"):
-            out = _names(a, "morphism")
-    if at_line_start:
-        out = out + statement_kw
-    return out
+        return not before_on_line.strip(), None, []
+    return not before_on_line.strip(), toks[k], toks[k + 1:]
+
+
+_STANDARD = "the standard lattice Z^d"
+
+
+def _expect_items(a, kw, rest, last) -> list[Suggestion]:
+    from ..semantics.properties import BOOL, properties_for
+    if not rest:
+        return _names(a, None)
+    kind = a.kind_of(rest[0])
+    if len(rest) == 1:
+        if kind is None:
+            return []
+        out = [Suggestion(p.name, "property", f"{p.type} — {p.doc}", sort="0") for p in properties_for(kind)]
+        out += _kw("not", sort="1")
+        if kind == "cone":
+            out += [Suggestion("==", "keyword", "equality of cones", sort="1")]
+        return out
+    if len(rest) == 2 and last == "not":
+        return [Suggestion(p.name, "property", p.doc, sort="0") for p in properties_for(kind) if p.type == BOOL] \
+            if kind is not None else []
+    if rest[1] == "==":
+        return _cone_expr_items(a, rest[1:])
+    return []
+
+
+def _polytope_items(a, kw, rest, last) -> list[Suggestion]:
+    if last == "in":
+        return _names(a, "lattice") + _kw("dual") + [Suggestion("Z^", "snippet", _STANDARD, sort="1")]
+    if last == "{":
+        return _kw("vertices", "halfspaces", sort="0")
+    if len(rest) >= 2 and rest[1] == "=" and last in ("=", "+", "*", "(", ",", "polar", "face", "hull"):
+        return _names(a, "polytope") + (_kw("polar", "face", "hull") if last != "hull" else [])
+    return []
+
+
+def _lattice_items(a, kw, rest, last) -> list[Suggestion]:
+    if last in ("=", "dual", "("):
+        return _names(a, "lattice") + [Suggestion("Z^", "snippet", _STANDARD, sort="0")] + _kw("dual")
+    return []
+
+
+def _fan_expr_items(a, rest, last) -> list[Suggestion]:
+    """After ``fan NAME =``: the ways to make a fan from other objects."""
+    if last == "=":
+        return _kw("resolve", "normal", "over", "star", "refine", sort="0")
+    if last in ("normal", "over"):
+        return _names(a, "polytope")
+    if last in ("star", "refine"):
+        return _names(a, "cone") + _names(a, "fan")
+    if len(rest) == 4 and rest[2] in ("star", "refine"):
+        return _kw("at" if rest[2] == "star" else "by", sort="0")
+    if last in ("resolve", "crepant"):
+        return _names(a, "cone") + (_kw("crepant", sort="1") if last == "resolve" else [])
+    return []
+
+
+def _section_items(kw, last) -> list[Suggestion]:
+    """Inside the braces of a cone, map or fan, after ``{``, a vector or a section word."""
+    if last in SECTION_KEYWORDS:
+        return []
+    if kw == "cone":
+        return _kw("rays", "halfspaces", "equations", sort="0")
+    if kw == "map" and last == "{":
+        return _kw("images", "rows", sort="0")
+    if kw == "fan":
+        return _kw("rays", sort="0") if last == "{" else _kw("cones", sort="0")
+    return []
+
+
+def _braced_items(a, kw, rest, last) -> list[Suggestion]:
+    """Statements with a lattice and a braced body: cone, characters, fan, map."""
+    inside = "{" in rest and "}" not in rest
+    if kw == "cone" and len(rest) >= 2 and rest[1] == "=":
+        return _cone_expr_items(a, rest[1:])
+    if kw == "fan" and len(rest) >= 2 and rest[1] == "=":
+        return _fan_expr_items(a, rest, last)
+    if not inside and "{" not in rest and last in ("in", "of", ":", "->", "→", "dual", "("):
+        out = _names(a, "lattice") + _kw("dual")
+        if last in ("in", "of", ":", "->", "→"):
+            out.append(Suggestion("Z^", "snippet", _STANDARD, sort="1"))
+        return out
+    if inside and last in ("{", ")", "]") + tuple(SECTION_KEYWORDS):
+        return _section_items(kw, last)
+    if len(rest) == 1 and kw in ("cone", "fan"):
+        return _kw("in", sort="0")
+    if len(rest) == 1 and kw == "characters":
+        return _kw("of", sort="0")
+    return []
+
+
+def _morphism_items(a, kw, rest, last) -> list[Suggestion]:
+    if last == "=":
+        return _names(a, "map") + _names(a, "morphism", sort="1")
+    if last in (":", "->", "→") and ":" in rest:
+        return _names(a, "cone")
+    if last in ("∘", "after"):
+        return _names(a, "morphism")
+    return []
+
+
+_STATEMENT_ITEMS = {"expect": _expect_items, "polytope": _polytope_items, "lattice": _lattice_items,
+                    "cone": _braced_items, "characters": _braced_items, "fan": _braced_items,
+                    "map": _braced_items, "morphism": _morphism_items}
 
 
 # ---- code actions ----------------------------------------------------------------------------
