@@ -406,8 +406,8 @@ def _number(x: Any, where: str) -> str:
     if isinstance(x, Integral):
         return str(int(x))
     if isinstance(x, Rational):
-        q = Fraction(int(x.numerator), int(x.denominator))
-        return str(q.numerator) if q.denominator == 1 else f"{q.numerator}/{q.denominator}"
+        from .semantics.forms import fmt_number
+        return fmt_number(Fraction(int(x.numerator), int(x.denominator)))
     if isinstance(x, float):
         raise _Bad(f"{where}: coordinate {x!r} is a float; floats are not exact: "
                    f"write an int or a Fraction such as Fraction(1, 2)")

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from fractions import Fraction
 
+from ..semantics.forms import fmt_number
 from .common import vec, vecs, yesno
 
 
@@ -19,7 +20,7 @@ def _poly(coeffs, var: str = "n") -> str:
         if c == 0:
             continue
         mono = "" if k == 0 else (var if k == 1 else f"{var}^{k}")
-        coef = str(c) if (k == 0 or c != 1) else ""
+        coef = fmt_number(c) if (k == 0 or c != 1) else ""
         terms.append((coef + (" " if coef and mono else "") + mono) or "1")
     return " + ".join(terms).replace("+ -", "- ") or "0"
 

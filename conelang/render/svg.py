@@ -39,6 +39,8 @@ from fractions import Fraction
 from math import sqrt
 from xml.sax.saxutils import escape
 
+from ..semantics.forms import fmt_number, fmt_vec
+
 PANEL = 300          # drawing area of a panel (square), in SVG units
 TITLE = 34           # room for the title above a panel
 GAP = 16
@@ -83,7 +85,7 @@ def _dot(u, v):
 
 def _exact(v) -> str:
     """The exact coordinates as written in the facts: ``"1,-2"``, ``"1/3,2/3"``."""
-    return ",".join(str(Fraction(x)) for x in v)
+    return ",".join(fmt_number(x) for x in v)
 
 
 def _f(x: float) -> str:
@@ -91,7 +93,7 @@ def _f(x: float) -> str:
 
 
 def _vec_text(v) -> str:
-    return "(" + ", ".join(str(Fraction(x)) for x in v) + ")"
+    return fmt_vec(v)
 
 
 def _clip(poly, a, b, c):

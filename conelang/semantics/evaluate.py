@@ -218,7 +218,7 @@ class Evaluator:
             for g in body.glue:
                 if len(g.vector.entries) != d:
                     self._fail(g.vector.span, "vector-length",
-                               f"glue vector {g.vector.source()} has {len(g.vector.entries)} coordinates, "
+                               f"glue vector {fmt_vec(g.vector.entries)} has {len(g.vector.entries)} coordinates, "
                                f"but Z^{d} has rank {d}")
                 glue.append(tuple(g.coefficient * x for x in g.vector.entries))
             return V.Space(st.name.text, glat.overlattice(d, glue))
@@ -259,7 +259,7 @@ class Evaluator:
                 continue
             x = space.to_coords(v.entries)
             if x is None:
-                self.sink.error(v.span, "not-in-lattice", f"the {role} {v.source()} is not in the lattice {space.label}"
+                self.sink.error(v.span, "not-in-lattice", f"the {role} {fmt_vec(v.entries)} is not in the lattice {space.label}"
                                 + self._lattice_hint(space, v))
                 bad = True
                 continue
@@ -267,6 +267,20 @@ class Evaluator:
         if bad:
             raise EvalError("bad vectors")
         return out
+    def _primitive(self, node: A.Vector, x, space: V.Space, subdivision: bool = False):
+        """The primitive vector on the ray of ``x`` (lattice coordinates, non-zero); when ``x``
+        is not primitive, the ``not-primitive`` warning with the fix that writes it."""
+        g = linalg.gcd_vec(x)
+        prim = tuple(c // g for c in x)
+        if g > 1:
+            pv = fmt_vec(space.from_coords(prim))
+            if subdivision:
+                msg = (f"the vector {fmt_vec(node.entries)} is not primitive; the subdivision is at the "
+                       f"primitive vector {pv} on its ray")
+            else:
+                msg = f"the ray {fmt_vec(node.entries)} is not primitive; the primitive vector on this ray is {pv}"
+            self.sink.warning(node.span, "not-primitive", msg, fixes=(Fix(f"replace by {pv}", node.span, pv),))
+        return prim
     def _lattice_hint(self, space: V.Space, v: A.Vector) -> str:
         if space.is_standard and not space.is_dual:
             return f" (Z^{space.rank} holds only integer vectors)"
@@ -296,25 +310,19 @@ class Evaluator:
             rays = self._vectors(sec.vectors, space, "ray")
             coords = [x for _, x in rays]
             for node, x in rays:
-                g = linalg.gcd_vec(x)
-                if g > 1:
-                    prim = tuple(c // g for c in x)
-                    pv = fmt_vec(space.from_coords(prim))
-                    self.sink.warning(node.span, "not-primitive",
-                                      f"the ray {node.source()} is not primitive; the primitive vector on this ray is {pv}",
-                                      fixes=(Fix(f"replace by {pv}", node.span, pv),))
+                self._primitive(node, x, space)
             cone = self.engine.cached("cone_from_rays", gcone.cone_from_rays, tuple(coords), d)
             for i in gcone.redundant_generators(coords, d, cone=cone):
                 node, x = rays[i]
                 if cone.lineality and all(linalg.dot(u, x) == 0 for u in cone.facets):
                     self.sink.warning(node.span, "ray-in-lineality",
-                                      f"the ray {node.source()} lies in the lineality space of cone '{st.name.text}' "
+                                      f"the ray {fmt_vec(node.entries)} lies in the lineality space of cone '{st.name.text}' "
                                       f"(the cone contains the whole line through it), so it is not an extremal ray")
                     continue
                 self.sink.warning(node.span, "redundant-ray",
-                                  f"the ray {node.source()} is not extremal: it is redundant in cone '{st.name.text}'",
+                                  f"the ray {fmt_vec(node.entries)} is not extremal: it is redundant in cone '{st.name.text}'",
                                   unnecessary=True,
-                                  fixes=(Fix(f"remove the redundant ray {node.source()}", node.span, ""),))
+                                  fixes=(Fix(f"remove the redundant ray {fmt_vec(node.entries)}", node.span, ""),))
             return V.ConeValue(space, cone)
         dual_space = space.dual()
         ineqs = self._vectors(seen["halfspaces"].vectors, dual_space, "inequality") if "halfspaces" in seen else []
@@ -325,9 +333,9 @@ class Evaluator:
         for i in gcone.redundant_inequalities(ic, ec, d, cone=cone):
             node = ineqs[i][0]
             self.sink.warning(node.span, "redundant-inequality",
-                              f"the inequality {node.source()} ≥ 0 is redundant: it does not cut out a facet",
+                              f"the inequality {fmt_vec(node.entries)} ≥ 0 is redundant: it does not cut out a facet",
                               unnecessary=True,
-                              fixes=(Fix(f"remove the redundant inequality {node.source()}", node.span, ""),))
+                              fixes=(Fix(f"remove the redundant inequality {fmt_vec(node.entries)}", node.span, ""),))
         return V.ConeValue(space, cone)
     def cone_expr(self, expr) -> V.ConeValue:
         """The value of a cone expression of this file (``dual c``, ``f(c) & d``, …), for
@@ -347,8 +355,8 @@ class Evaluator:
                 if val < 0:
                     rv = fmt_vec(inner.space.from_coords(r))
                     self._fail(node.span, "face-not-dual",
-                               f"{node.source()} is not in the dual cone, so it cuts out no face: "
-                               f"<{node.source()}, {rv}> = {val} < 0")
+                               f"{fmt_vec(node.entries)} is not in the dual cone, so it cuts out no face: "
+                               f"<{fmt_vec(node.entries)}, {rv}> = {val} < 0")
             return V.ConeValue(inner.space, gcone.face(inner.cone, u))
         if isinstance(expr, A.ConeOver):
             from .polytopes import cone_over
@@ -485,13 +493,7 @@ class Evaluator:
         rays = self._vectors(st.rays, space, "ray")
         coords = []
         for node, x in rays:
-            g = linalg.gcd_vec(x)
-            if g > 1:
-                pv = fmt_vec(space.from_coords(tuple(c // g for c in x)))
-                self.sink.warning(node.span, "not-primitive",
-                                  f"the ray {node.source()} is not primitive; the primitive vector on this ray is {pv}",
-                                  fixes=(Fix(f"replace by {pv}", node.span, pv),))
-            coords.append(tuple(c // g for c in x))
+            coords.append(self._primitive(node, x, space))
         cones = []
         for il in st.cones:
             idx = []
@@ -593,18 +595,12 @@ class Evaluator:
         d = space.rank
         vectors = []
         for node, x in self._vectors(st.vectors, space, "vector"):
-            g = linalg.gcd_vec(x)
-            prim = tuple(c // g for c in x)
-            if g > 1:
-                pv = fmt_vec(space.from_coords(prim))
-                self.sink.warning(node.span, "not-primitive",
-                                  f"the vector {node.source()} is not primitive; the subdivision is at the "
-                                  f"primitive vector {pv} on its ray", fixes=(Fix(f"replace by {pv}", node.span, pv),))
+            prim = self._primitive(node, x, space, subdivision=True)
             if subdivision.cone_containing(rays, cones, d, prim) is None:
                 self._fail(node.span, "not-in-support", self._outside_message(node, st.base.text, base_kind, base, prim))
             if prim in rays or prim in vectors:
                 self.sink.warning(node.span, "existing-ray",
-                                  f"{node.source()} is already a ray, so the star subdivision at it changes nothing",
+                                  f"{fmt_vec(node.entries)} is already a ray, so the star subdivision at it changes nothing",
                                   unnecessary=True)
             vectors.append(prim)
             rays, cones = subdivision.star_subdivision(rays, cones, d, prim, self.engine.budget())
@@ -615,12 +611,12 @@ class Evaluator:
                 linalg.dot(u, v) < 0 for u in base.cone.facets) else None
             if u is not None:
                 us = fmt_vec(base.space.dual().from_coords(u))
-                return (f"{node.source()} is not in the cone '{name}': <{us}, {node.source()}> = "
+                return (f"{fmt_vec(node.entries)} is not in the cone '{name}': <{us}, {fmt_vec(node.entries)}> = "
                         f"{linalg.dot(u, v)} < 0")
             e = next(e for e in base.cone.equations if linalg.dot(e, v) != 0)
             es = fmt_vec(base.space.dual().from_coords(e))
-            return f"{node.source()} is not in the span of the cone '{name}': <{es}, {node.source()}> ≠ 0"
-        return f"{node.source()} lies in no cone of the fan '{name}' (outside its support)"
+            return f"{fmt_vec(node.entries)} is not in the span of the cone '{name}': <{es}, {fmt_vec(node.entries)}> ≠ 0"
+        return f"{fmt_vec(node.entries)} lies in no cone of the fan '{name}' (outside its support)"
 
     # the helpers other statement kinds evaluate with (see the module docstring)
     fail = _fail

@@ -170,7 +170,7 @@ def jnum(x):
     ('3/2', 3)
     """
     x = Fraction(x)
-    return x.numerator if x.denominator == 1 else f"{x.numerator}/{x.denominator}"
+    return x.numerator if x.denominator == 1 else fmt_number(x)
 
 
 def jvec(v) -> list:

@@ -83,9 +83,9 @@ def _by_vertices(a, st, space: V.Space, sec: A.PolySection) -> V.PolytopeValue:
     for i in gpoly.redundant_points(coords, P):
         node = pts[i][0]
         a.sink.warning(node.span, "redundant-vertex",
-                       f"the point {node.source()} is not a vertex of polytope '{st.name.text}' "
+                       f"the point {fmt_vec(node.entries)} is not a vertex of polytope '{st.name.text}' "
                        "(it lies in the hull of the others, or repeats one)", unnecessary=True,
-                       fixes=(Fix(f"remove the redundant point {node.source()}", node.span, ""),))
+                       fixes=(Fix(f"remove the redundant point {fmt_vec(node.entries)}", node.span, ""),))
     return V.PolytopeValue(space, P)
 
 
@@ -109,23 +109,20 @@ def _by_halfspaces(a, st, space: V.Space, sec: A.PolySection) -> V.PolytopeValue
     for v in res.vertices:
         if any(x.denominator != 1 for x in v):
             user = space.from_coords(v) if space.is_standard else _rational_user(space, v)
-            tight = [f"{h.normal.source()} >= {_num(h.bound.value)}" for (u, c), h in zip(rows, sec.halfspaces)
+            tight = [f"{fmt_vec(h.normal.entries)} >= {fmt_number(h.bound.value)}" for (u, c), h in zip(rows, sec.halfspaces)
                      if sum(Fraction(x) * y for x, y in zip(v, u)) + c == 0]
             a.fail(sec.keyword.span, "not-lattice-polytope",
                     f"the halfspaces of '{st.name.text}' cut out a polytope with the vertex {fmt_vec(user)}, "
                     f"which is not in {space.label} (where {' and '.join(tight)} meet): it is not a lattice polytope")
     for i in res.redundant:
         h = sec.halfspaces[i]
-        src = f"{h.normal.source()} >= {_num(h.bound.value)}"
+        src = f"{fmt_vec(h.normal.entries)} >= {fmt_number(h.bound.value)}"
         a.sink.warning(h.span, "redundant-inequality",
                        f"the halfspace {src} is redundant: it does not cut out a facet", unnecessary=True,
                        fixes=(Fix(f"remove the redundant halfspace {src}", h.span, ""),))
     P = gpoly.polytope_from_points([tuple(int(x) for x in v) for v in res.vertices], d)
     return V.PolytopeValue(space, P)
 
-
-def _num(x) -> str:
-    return fmt_number(x)
 
 
 def _rational_user(space: V.Space, v) -> tuple:
@@ -166,7 +163,7 @@ def _origin_problem(value: V.PolytopeValue) -> str:
         return f"it has dimension {P.dim} in a lattice of rank {s.rank}, so it has no interior"
     u, c = next((u, c) for u, c in P.facets if c <= 0)
     where = "on" if c == 0 else "outside"
-    return f"the origin lies {where} its facet <{fmt_vec(s.dual().from_coords(u))}, x> >= {_num(-c)}"
+    return f"the origin lies {where} its facet <{fmt_vec(s.dual().from_coords(u))}, x> >= {fmt_number(-c)}"
 
 
 def _polar(a, expr: A.PolarPolytope) -> V.PolytopeValue:
@@ -229,6 +226,6 @@ def with_grading(a, st: A.ConeDef, value: V.ConeValue) -> V.ConeValue:
         val = linalg.dot(w, r)
         if val <= 0:
             a.fail(node.span, "bad-grading",
-                    f"a grading must be positive on every ray, but <{node.source()}, "
+                    f"a grading must be positive on every ray, but <{fmt_vec(node.entries)}, "
                     f"{fmt_vec(value.space.from_coords(r))}> = {val}")
     return dataclasses.replace(value, grading=w)

@@ -29,13 +29,6 @@ class Vector:
     entries: tuple[Fraction, ...]
     span: Span
 
-    def source(self) -> str:
-        return "(" + ", ".join(_frac(x) for x in self.entries) + ")"
-
-
-def _frac(x: Fraction) -> str:
-    return str(x.numerator) if x.denominator == 1 else f"{x.numerator}/{x.denominator}"
-
 
 # ---- lattice expressions ---------------------------------------------------------------
 @dataclass(frozen=True)
