@@ -14,7 +14,6 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
-from ..geometry import cone as gcone
 from ..geometry import linalg
 from ..geometry.budget import Cancelled
 from ..semantics import values as V
@@ -109,20 +108,13 @@ def _vector_hover(a, offset: int):
     x = space.to_coords(v.entries)
     if x is None or not any(x):
         return (f"`{src}` in `{name}`", v.span)
-    d = value.space.rank
-    if kw == "rays":
-        coords = [value.space.to_coords(w.entries) for w in sec.vectors]
-        redundant = set(gcone.redundant_generators(coords, d))
-        extremal = "**extremal**" if i not in redundant else "**not extremal** (redundant)"
+    if kw == "rays":       # the redundant entries were found while evaluating the cone
+        extremal = "**extremal**" if i not in value.redundant else "**not extremal** (redundant)"
         if not value.cone.pointed:
             extremal += f"; the cone is not pointed (lineality space of dimension {value.cone.lineality_dim})"
         return (f"ray `{src}` of `{name}`: {_primitive_text(value.space, x)} · {extremal}", v.span)
     if kw == "halfspaces":
-        ineqs = [value.space.dual().to_coords(w.entries) for w in sec.vectors]
-        eq_sec = next((s for s in st.sections if s.keyword.text == "equations"), None)
-        eqs = [value.space.dual().to_coords(w.entries) for w in eq_sec.vectors] if eq_sec else []
-        redundant = set(gcone.redundant_inequalities(ineqs, eqs, d))
-        facet = "**cuts out a facet**" if i not in redundant else "**redundant** (cuts out no facet)"
+        facet = "**cuts out a facet**" if i not in value.redundant else "**redundant** (cuts out no facet)"
         return (f"inequality ⟨`{src}`, v⟩ ≥ 0 of `{name}`: {_primitive_text(space, x)} · {facet}", v.span)
     return (f"equation ⟨`{src}`, v⟩ = 0 of `{name}`: {_primitive_text(space, x)}", v.span)
 

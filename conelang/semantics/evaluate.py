@@ -312,7 +312,8 @@ class Evaluator:
             for node, x in rays:
                 self._primitive(node, x, space)
             cone = self.engine.cached("cone_from_rays", gcone.cone_from_rays, tuple(coords), d)
-            for i in gcone.redundant_generators(coords, d, cone=cone):
+            redundant = tuple(gcone.redundant_generators(coords, d, cone=cone))
+            for i in redundant:
                 node, x = rays[i]
                 if cone.lineality and all(linalg.dot(u, x) == 0 for u in cone.facets):
                     self.sink.warning(node.span, "ray-in-lineality",
@@ -323,20 +324,21 @@ class Evaluator:
                                   f"the ray {fmt_vec(node.entries)} is not extremal: it is redundant in cone '{st.name.text}'",
                                   unnecessary=True,
                                   fixes=(Fix(f"remove the redundant ray {fmt_vec(node.entries)}", node.span, ""),))
-            return V.ConeValue(space, cone)
+            return V.ConeValue(space, cone, redundant=redundant)
         dual_space = space.dual()
         ineqs = self._vectors(seen["halfspaces"].vectors, dual_space, "inequality") if "halfspaces" in seen else []
         eqs = self._vectors(seen["equations"].vectors, dual_space, "equation") if "equations" in seen else []
         ic = [x for _, x in ineqs]
         ec = [x for _, x in eqs]
         cone = self.engine.cached("cone_from_inequalities", gcone.cone_from_inequalities, tuple(ic), tuple(ec), d)
-        for i in gcone.redundant_inequalities(ic, ec, d, cone=cone):
+        redundant = tuple(gcone.redundant_inequalities(ic, ec, d, cone=cone))
+        for i in redundant:
             node = ineqs[i][0]
             self.sink.warning(node.span, "redundant-inequality",
                               f"the inequality {fmt_vec(node.entries)} ≥ 0 is redundant: it does not cut out a facet",
                               unnecessary=True,
                               fixes=(Fix(f"remove the redundant inequality {fmt_vec(node.entries)}", node.span, ""),))
-        return V.ConeValue(space, cone)
+        return V.ConeValue(space, cone, redundant=redundant)
     def cone_expr(self, expr) -> V.ConeValue:
         """The value of a cone expression of this file (``dual c``, ``f(c) & d``, …), for
         the expectations; raises EvalError after reporting what is wrong."""

@@ -7,7 +7,7 @@ that user ("ambient") coordinates and lattice coordinates can be converted both 
 from __future__ import annotations
 
 import functools
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from fractions import Fraction
 
 from ..geometry import lattice as glat
@@ -70,6 +70,9 @@ class ConeValue:
     space: Space
     cone: Cone
     grading: tuple[int, ...] | None = None   # the ``grading`` section (dual lattice coordinates)
+    # positions in the defining ``rays`` (or ``halfspaces``) section of the entries that are
+    # redundant, found while evaluating (the editor's hover reads them); not part of the value
+    redundant: tuple[int, ...] = field(default=(), compare=False)
 
 
 @dataclass(frozen=True)
