@@ -79,8 +79,28 @@ def _job_sleep(host, uri, seconds):
     return seconds
 
 
+def _hover_quick(host, uri, offset):
+    """The hover that needs values but no heavy facts, and what the full one still computes."""
+    light = host.hover(uri, offset, heavy=False)
+    return None if light is None else (light[0], light[1], host.hover_pending(uri, offset))
+
+
+def _hover_partial(host, uri, offset):
+    """The facts of the object under ``offset`` except its binomial equations (None when the
+    hover there is not about an object with heavy facts)."""
+    hit = host.name_at(uri, offset)
+    if hit is None or host.hover_pending(uri, offset) is None:
+        return None
+    return host.object_markdown(uri, hit[0], True, False)
+
+
 JOBS = {
     "diagnostics": lambda host, uri: host.diagnostics(uri, True),
+    "hover": lambda host, uri, offset: host.hover(uri, offset, True),
+    "hover_quick": _hover_quick,
+    "hover_partial": _hover_partial,
+    "fixes": lambda host, uri, start, end: host.code_fixes(uri, start, end),
+    "inlay_quick": lambda host, uri: host.inlay_hints(uri, False),
     "markdown": lambda host, uri, name: host.object_markdown(uri, name, True),
     "markdown_quick": lambda host, uri, name: host.object_markdown(uri, name, True, False),
     "inlay": lambda host, uri: host.inlay_hints(uri, True),
@@ -106,9 +126,8 @@ def _warm_up() -> None:
     the garbage collector (``gc.freeze``), so that a full collection in the middle of a job
     walks the objects the jobs made, not the ~70 000 of the imported libraries (45 ms)."""
     try:
-        from conelang.semantics import facts, properties  # noqa: F401
-        from conelang.syntax.parser import parse
-        parse("lattice N = Z^2")
+        from conelang.ide import warm_up
+        warm_up()
     except Exception:  # noqa: BLE001 - only an optimisation
         pass
     gc.collect()
@@ -183,6 +202,8 @@ class Job:
     files: dict = field(default_factory=dict)     # uri -> text of the files the job's file uses
     future: cf.Future = field(default_factory=cf.Future)
     cancelled_at: float | None = None
+    interactive: bool = False
+    preempted: bool = False        # stopped once to let an interactive job run first
 
 
 class HeavyWorker:
@@ -191,6 +212,13 @@ class HeavyWorker:
     ``submit`` returns a :class:`concurrent.futures.Future` that ends with the job's result,
     or with :class:`JobCancelled` / :class:`WorkerFailed`.  Identical jobs (same kind, file,
     text and arguments) share one future.
+
+    Interactive jobs (a hover, a quick fix: someone waits for them) go to the front of the
+    queue, and an interactive job *preempts* a running background job (diagnostics of a heavy
+    file): the background job is cancelled through the flag, the interactive job runs, then the
+    background job runs again from the start (computations finished before the stop stay in the
+    worker's caches).  A job is preempted at most once, so a stream of hovers cannot starve
+    the diagnostics.
     """
 
     def __init__(self, budget_limit: int | None = gbudget.DEFAULT_LIMIT, grace: float = 1.0,
@@ -279,13 +307,34 @@ class HeavyWorker:
                         self._queue.remove(job)
                         self._queue.appendleft(job)
                     return job.future
-            job = Job(next(self._ids), kind, uri, key, text, args, dict(files or {}))
+            job = Job(next(self._ids), kind, uri, key, text, args, dict(files or {}), interactive=interactive)
             if interactive:
                 self._queue.appendleft(job)
+                self._preempt()
             else:
                 self._queue.append(job)
             self._cond.notify_all()
             return job.future
+
+    def _preempt(self) -> None:
+        """Stop the running background job so that the interactive job queued first runs now
+        (it runs again afterwards; see the class docstring).  Called with the lock held."""
+        r = self._running
+        if r is not None and not r.interactive and not r.preempted and r.cancelled_at is None:
+            r.preempted = True
+            r.cancelled_at = time.monotonic()
+            self._shared.value = r.id
+
+    def _requeue(self, job: Job) -> bool:
+        """Put a preempted job back behind the interactive jobs at the front of the queue;
+        False when it was cancelled for good meanwhile.  Called with the lock held."""
+        if job.future.done() or self._stopped or job.key is None:
+            return False
+        job.id, job.cancelled_at = next(self._ids), None
+        front = next((i for i, j in enumerate(self._queue) if not j.interactive), len(self._queue))
+        self._queue.insert(front, job)
+        self._cond.notify_all()
+        return True
 
     def cancel_stale(self, uri: str, key: str | None) -> int:
         """Cancel the queued and running jobs of ``uri`` made for a text other than ``key``
@@ -298,8 +347,9 @@ class HeavyWorker:
                     _settle(job.future, exc=JobCancelled("the text changed"))
                     n += 1
             r = self._running
-            if r is not None and r.uri == uri and r.key != key and r.cancelled_at is None:
-                r.cancelled_at = time.monotonic()
+            if r is not None and r.uri == uri and r.key != key and (r.cancelled_at is None or r.preempted):
+                r.preempted = False            # stale: cancelled for good, not run again
+                r.cancelled_at = r.cancelled_at or time.monotonic()
                 self._shared.value = r.id
                 n += 1
         return n
@@ -326,6 +376,8 @@ class HeavyWorker:
             with self._cond:
                 self._running = None
                 self.jobs_run += 1
+                if status == "cancelled" and job.preempted and self._requeue(job):
+                    continue
             if status == "ok":
                 _settle(job.future, result=value)
             elif status == "cancelled":

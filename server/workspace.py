@@ -109,9 +109,7 @@ class Workspace:
                 await asyncio.sleep(delay)
             ls = self.server
             for dep in ls.host.dependents(uri, self.candidates()):
-                if ls.worker is not None:
-                    ls.worker.cancel_stale(dep, ls.state_key(dep))
-                ls.schedule(dep, 0.0)
+                ls.jobs.text_changed(dep, 0.0)
         except asyncio.CancelledError:
             raise
         except Exception:
@@ -131,11 +129,11 @@ class Workspace:
             self.add(uri)
             self._texts.pop(uri, None)
         ls.host.invalidate(uri)
-        if uri not in ls.host.texts:          # the open text wins over the disk
+        if not ls.host.is_open(uri):          # the open text wins over the disk
             if kind == "deleted":
-                ls.forget_closed(uri)
-            elif uri in ls.last_full:         # diagnostics were published for it: check it again
-                ls.schedule(uri, ls.debounce)
+                ls.jobs.closed(uri)
+            elif uri in ls.jobs.last_full:    # diagnostics were published for it: check it again
+                ls.jobs.schedule(uri, ls.debounce)
             self.changed(uri)
 
     def on_watched_files(self, params: T.DidChangeWatchedFilesParams) -> None:
@@ -161,13 +159,38 @@ class Workspace:
         except Exception:
             log.warning("the client refused the file watcher: changes on disk are seen when files are saved or opened")
 
+    def ensure_text(self, uri: str) -> None:
+        """Make sure the host has the text of ``uri`` (opened documents always do; a file that
+        is not open is read by the host's loader; anything else, e.g. an unsaved buffer never
+        opened, through the protocol's workspace when possible)."""
+        host = self.server.host
+        if host.is_open(uri) or host.source(uri) is not None:
+            return
+        try:
+            text = self.server.workspace.get_text_document(uri).source
+        except Exception:
+            text = ""
+        host.apply_change(uri, text)
+
+    def folder_uris(self) -> list[str]:
+        """The URIs of the workspace folders (the root URI for a client without folders)."""
+        roots = []
+        try:
+            ws = self.server.workspace
+            roots = [f.uri for f in ws.folders.values()]
+            if not roots and ws.root_uri:
+                roots = [ws.root_uri]
+        except Exception:
+            pass
+        return roots
+
     # -- texts for workspace symbols --------------------------------------------------------
     def texts(self, max_bytes: int = 1_000_000):
         """(uri, text) of the ``.cone`` files of the workspace, open documents first (their
         open text); a file on disk is read again only when its size or time changed."""
         host = self.server.host
         seen = set()
-        for uri, text in list(host.texts.items()):
+        for uri, text in host.open_files():
             if is_cone(uri):
                 seen.add(uri)
                 yield uri, text

@@ -15,7 +15,7 @@ from __future__ import annotations
 
 from ..geometry import budget as gbudget
 from ..semantics.analysis import Analysis
-from ..semantics.diagnostics import Diagnostic
+from ..semantics.diagnostics import Diagnostic, sort_key
 from ..semantics.engine import Engine
 from ..semantics.facts import object_facts
 from ..semantics.imports import Imported, ImportFailure, Resolved
@@ -57,6 +57,7 @@ class AnalysisHost:
         self.progress = progress
         self.texts: dict[str, str] = {}
         self._analyses: dict[str, Analysis] = {}
+        self._static: dict[str, list[Diagnostic]] = {}   # uri -> its diagnostics found before any evaluation
         self._indexes: dict[str, LineIndex] = {}
         self.loader = loader
         self._disk: dict[str, object] = {}           # texts (or failures) read by the loader
@@ -94,7 +95,7 @@ class AnalysisHost:
             old = next(iter(self._released))
             del self._released[old]
             if not any(u in self._analyses for u in self._importers.get(old, ())):
-                for cache in (self._disk, self._analyses, self._indexes, self._graph, self._importers):
+                for cache in (self._disk, self._analyses, self._static, self._indexes, self._graph, self._importers):
                     cache.pop(old, None)
 
     def _drop(self, uri: str) -> None:
@@ -107,6 +108,7 @@ class AnalysisHost:
                 continue
             seen.add(u)
             self._analyses.pop(u, None)
+            self._static.pop(u, None)
             self._indexes.pop(u, None)
             todo.extend(self._importers.pop(u, ()))
             todo.extend(v for v, (_, targets) in list(self._graph.items()) if u in targets)
@@ -114,7 +116,7 @@ class AnalysisHost:
     def forget_files(self) -> None:
         """Forget every file read by the loader and every analysis (the open texts stay), e.g.
         after the loader's rules changed (``allow_outside_root``)."""
-        for cache in (self._disk, self._analyses, self._indexes, self._graph, self._importers):
+        for cache in (self._disk, self._analyses, self._static, self._indexes, self._graph, self._importers):
             cache.clear()
 
     def used_files(self, uri: str) -> list[str]:
@@ -239,6 +241,7 @@ class AnalysisHost:
     def forget_analysis(self, uri: str) -> None:
         """Drop the cached analysis of ``uri`` (e.g. after a cancelled computation)."""
         self._analyses.pop(uri, None)
+        self._static.pop(uri, None)
 
     def text(self, uri: str) -> str:
         """The text of ``uri`` the host analyses: the open one, else the loader's ("" when
@@ -272,11 +275,48 @@ class AnalysisHost:
             a = Analysis(text, engine or Engine(self.budget_limit, self.cancel, self.progress),
                          resolver=self._resolver(uri))
             self._analyses[uri] = a
+            self._static[uri] = sorted(a.sink.items, key=sort_key)   # nothing is evaluated yet
         return a
 
     # -- questions -----------------------------------------------------------------------
     def diagnostics(self, uri: str, expectations: bool = True) -> list[Diagnostic]:
         return self.analysis(uri).diagnostics(expectations)
+
+    def static_diagnostics(self, uri: str) -> list[Diagnostic]:
+        """The diagnostics found without computing any value: syntax, names, kinds, cycles and
+        ``use`` statements (cheap: parsing and name resolution only, for an editor's event loop;
+        :meth:`diagnostics` adds what evaluation finds).
+
+        >>> h = AnalysisHost(); h.apply_change("m", "lattice N = Z^2\\ncone c in N { rays (2,0) }\\nexpect d pointed")
+        >>> [d.code for d in h.static_diagnostics("m")], [d.code for d in h.diagnostics("m")]
+        (['unknown-name'], ['not-primitive', 'unknown-name'])
+        """
+        self.analysis(uri)
+        return list(self._static[uri])
+
+    def statement_sources(self, uri: str) -> list[tuple[str, tuple[int, int]]]:
+        """(source text, span) of every statement of ``uri`` that parses, in file order (no
+        evaluation): what an editor needs to move the results of unchanged statements after an
+        edit."""
+        a = self.analysis(uri)
+        return [(a.text[st.span[0]:st.span[1]], st.span) for st in a.module.statements]
+
+    def name_at(self, uri: str, offset: int) -> tuple[str, str | None, tuple[int, int]] | None:
+        """(name, kind, span) of the name under ``offset`` (a definition or a use; kind None when
+        the name is unknown), without evaluating anything."""
+        a = self.analysis(uri)
+        hit = a.node_at(offset)
+        if hit is None or hit[1] is None:
+            return None
+        return hit[1], a.kind_of(hit[1]), hit[2]
+
+    def is_open(self, uri: str) -> bool:
+        """Whether ``uri`` has a text given by :meth:`apply_change` (an open document)."""
+        return uri in self.texts
+
+    def open_files(self) -> list[tuple[str, str]]:
+        """(uri, text) of the open documents."""
+        return list(self.texts.items())
 
     def diagnostic_lines(self, uri: str, label: str | None = None) -> list[tuple[str, str]]:
         """(severity, line) for each diagnostic of ``uri``, as ``conelang check`` prints them."""

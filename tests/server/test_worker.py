@@ -124,3 +124,17 @@ def test_a_job_computes_with_the_texts_it_carries_of_the_files_it_uses(worker, t
     assert codes("outside") == ["import-outside-root"]
     assert codes("allowed", allow=True) == []
     assert codes("refused") == ["import-outside-root"]
+
+
+def test_an_interactive_job_preempts_a_background_job_which_then_runs_again(worker):
+    restarts = worker.restarts
+    background = worker.submit("sleep", "mem://p", "", 2, key="bg")
+    for _ in range(600):
+        if worker._running is not None and worker._running.kind == "sleep":
+            break
+        cf.wait([background], timeout=0.05)
+    hover = worker.submit("ping", "mem://p", "", key="bg", interactive=True)
+    assert hover.result(WAIT) == "pong"
+    assert not background.done()                      # stopped for the hover, then started again
+    assert background.result(WAIT) == 2               # and it finishes: preempted once, not cancelled
+    assert worker.restarts == restarts
