@@ -40,6 +40,7 @@ from math import sqrt
 from xml.sax.saxutils import escape
 
 from ..semantics.forms import fmt_number, fmt_vec
+from ..semantics.pictures import plane_cone_normals, positive_functional, section_functional
 
 PANEL = 300          # drawing area of a panel (square), in SVG units
 TITLE = 34           # room for the title above a panel
@@ -391,13 +392,6 @@ def _section_panel(title: str, subtitle: str, vertices, labels, w, extra=(), pol
     return panel
 
 
-def _sum(vectors, n):
-    out = [Fraction(0)] * n
-    for v in vectors:
-        out = [a + Fraction(b) for a, b in zip(out, v)]
-    return tuple(out)
-
-
 def _note_panel(title: str, text: str) -> Panel:
     p = Panel(title)
     y = 40
@@ -422,42 +416,6 @@ def _wrap(text: str, width: int) -> list[str]:
 
 # ---------------------------------------------------------------------------------------------
 # objects
-
-
-def section_functional(rays, facets):
-    """The plane ``<w, x> = level`` of the picture of a pointed 3-dimensional cone: when one
-    functional takes the same value on every ray generator (a Q-Gorenstein cone), ``w`` is
-    it, made primitive, and ``level`` that value, so the corners lie in the section and it is
-    the polytope conv(rays); otherwise ``w`` is the primitive sum of the facet normals
-    (positive on σ ∖ 0) and ``level`` 1.
-
-    >>> section_functional([(1, 0, 0), (0, 1, 0), (1, 1, 4)], [(0, 0, 1), (0, 4, -1), (4, 0, -1)])
-    ((4, 4, -1), 4)
-    >>> from conelang.geometry.cone import cone_from_rays
-    >>> c = cone_from_rays([(1, 0, 1), (0, 1, 1), (-1, 0, 1), (0, -1, 2)], 3)
-    >>> section_functional(c.rays, c.facets)      # no common value: the sum of the normals
-    ((0, 1, 2), 1)
-    """
-    from ..geometry import linalg
-    ints = [_integral(r) for r in rays]
-    m = linalg.solve_rational(ints, [1] * len(ints), 3) if ints else None
-    if m is not None:
-        w = _integral(m)
-        return w, _dot(w, ints[0])
-    return _integral(_sum(facets, 3)), 1
-
-
-def _integral(v) -> tuple[int, ...]:
-    """The primitive integer vector on the ray of a rational vector."""
-    q = _qv(v)
-    den = 1
-    for x in q:
-        den = den * x.denominator // _gcd(den, x.denominator)
-    ints = [int(x * den) for x in q]
-    g = 0
-    for x in ints:
-        g = _gcd(g, abs(x))
-    return tuple(x // g for x in ints) if g else tuple(ints)
 
 
 def _mat_vec(v, rows):
@@ -591,7 +549,7 @@ def _support_points(rays, cones, radius: int) -> list[tuple[int, int]]:
         return a[0] * b[1] - a[1] * b[0]
 
     gens = [[_qv(rays[i]) for i in c] for c in cones]
-    normals = [_plane_cone_normals(g) if len(g) >= 2 else None for g in gens]
+    normals = [plane_cone_normals(g) if len(g) >= 2 else None for g in gens]
     out = []
     for x in range(-radius, radius + 1):
         for y in range(-radius, radius + 1):
@@ -627,7 +585,7 @@ def fan_panels(name: str, o: dict, standard: bool = True) -> list[Panel]:
         panel.body += _axes(plane)
         for k, c in enumerate(cones):
             if len(c) >= 2:
-                normals = _plane_cone_normals([_qv(rays[i]) for i in c])
+                normals = plane_cone_normals([_qv(rays[i]) for i in c])
                 if normals is not None:
                     poly = _region(plane, normals, [])
                     if len(poly) >= 3:
@@ -642,52 +600,13 @@ def fan_panels(name: str, o: dict, standard: bool = True) -> list[Panel]:
                                   f'data-point="{_exact(r)}"/>')
         return [panel]
     if n == 3:
-        w = _positive_functional(rays)
+        w = positive_functional(rays)
         if w is None:
             return [_note_panel(title, "the rays of this fan do not lie in an open half-space, so no single "
                                        "plane section shows it (e.g. a complete fan)")]
         return [_section_panel(title, (sub + "; " if sub else "") + f"section by <{_vec_text(w)}, x> = 1",
                                rays, labels, w, polygons=cones)]
     return []
-
-
-def _plane_cone_normals(gens):
-    """Inner normals of a pointed plane cone spanned by ``gens`` (None if degenerate)."""
-    # the two extreme generators: those with all others on one side
-    best = None
-    for a in gens:
-        for b in gens:
-            d = a[0] * b[1] - a[1] * b[0]
-            if d > 0 and all(a[0] * g[1] - a[1] * g[0] >= 0 and g[0] * b[1] - g[1] * b[0] >= 0 for g in gens):
-                best = (a, b)
-    if best is None:
-        return None
-    a, b = best
-    return [(-a[1], a[0]), (b[1], -b[0])]
-
-
-def _positive_functional(rays):
-    """A rational w with <w, v> > 0 for every ray (exact), or None."""
-    from ..geometry.cone import cone_from_rays
-    ints = []
-    for r in rays:
-        q = _qv(r)
-        den = 1
-        for x in q:
-            den = den * x.denominator // _gcd(den, x.denominator)
-        ints.append(tuple(int(x * den) for x in q))
-    c = cone_from_rays(ints, 3)
-    if not c.pointed:
-        return None
-    if c.dim < 3:
-        w = _sum(c.facets, 3) if c.facets else _qv(c.rays[0])
-        # add a multiple of the rays' span direction so that w is positive on the rays
-        w = tuple(a + b for a, b in zip(w, _sum(c.rays, 3)))
-    else:
-        w = _sum(c.facets, 3)
-    if all(_dot(w, _qv(r)) > 0 for r in rays):
-        return w
-    return None
 
 
 def morphism_panels(name: str, o: dict, objects: dict) -> list[Panel]:
@@ -713,7 +632,7 @@ def morphism_panels(name: str, o: dict, objects: dict) -> list[Panel]:
     poly = _region(plane, tgt["facets"], tgt["linear_equations"])
     if len(poly) >= 3:
         panel.body.append(_polygon(plane, poly, "region"))
-    normals = _plane_cone_normals(gens) if len(gens) >= 2 else None
+    normals = plane_cone_normals(gens) if len(gens) >= 2 else None
     if normals is not None:
         poly = _region(plane, normals, [])
         if len(poly) >= 3:
@@ -723,12 +642,6 @@ def morphism_panels(name: str, o: dict, objects: dict) -> list[Panel]:
                                       list(src["rays"]) + list(src["lineality"]) * 2][:len(gens)], placer)
     panel.body += _points(plane, gens, "image-generator", 3)
     return [panel]
-
-
-def _gcd(a: int, b: int) -> int:
-    while b:
-        a, b = b, a % b
-    return a
 
 
 def render(doc: dict) -> str:
