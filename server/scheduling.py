@@ -21,10 +21,11 @@ import asyncio
 import gc
 import hashlib
 import logging
-from collections import OrderedDict
 from dataclasses import replace
 
 import time
+
+from conelang.cache import ContentCache
 
 from .worker import HeavyWorker, JobCancelled, WorkerFailed
 
@@ -42,8 +43,8 @@ class Jobs:
         self.server = server
         self.worker: HeavyWorker | None = None
         self.tasks: dict[str, asyncio.Task] = {}
-        self.cache: OrderedDict = OrderedDict()
-        self.cache_size = cache_size
+        # the worker's answers by the fingerprint of the texts they were computed from
+        self.cache = ContentCache("worker answers", cache_size)
         self.last_full: dict[str, tuple[list, list]] = {}   # uri -> (diagnostics, statement sources)
         self.last_inlay: dict[str, tuple[list, list]] = {}  # uri -> (inlay hints, statement sources)
 
@@ -88,16 +89,10 @@ class Jobs:
         return key, fut
 
     def remembered(self, key):
-        if key in self.cache:
-            self.cache.move_to_end(key)
-            return self.cache[key]
-        return None
+        return self.cache.get(key)
 
     def remember(self, key, value) -> None:
-        self.cache[key] = value
-        self.cache.move_to_end(key)
-        while len(self.cache) > self.cache_size:
-            self.cache.popitem(last=False)
+        self.cache.put(key, value)
 
     # -- checking files ------------------------------------------------------------------
     def text_changed(self, uri: str, delay: float) -> None:
