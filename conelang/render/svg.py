@@ -40,7 +40,7 @@ from math import sqrt
 from xml.sax.saxutils import escape
 
 from ..semantics.forms import fmt_number, fmt_vec
-from ..semantics.pictures import plane_cone_normals, positive_functional, section_functional
+from ..semantics.pictures import plane_cone_normals, positive_functional, section_functional, window_radius
 
 PANEL = 300          # drawing area of a panel (square), in SVG units
 TITLE = 34           # room for the title above a panel
@@ -296,14 +296,6 @@ def _cone_panel_2d(title: str, subtitle: str, radius: int, rays, lineality, norm
     return panel
 
 
-def _window(vectors, lo: int = 3, hi: int = 8) -> int:
-    size = 0
-    for v in vectors:
-        for c in v:
-            size = max(size, abs(Fraction(c)))
-    return max(lo, min(hi, int(size) + (Fraction(size).denominator != 1)))
-
-
 # ---------------------------------------------------------------------------------------------
 # cross-sections in rank 3
 
@@ -464,7 +456,7 @@ def _overlattice_panel(title, subtitle, rays, lineality, normals, equations, bas
     normals_c = [to_dc(u) for u in normals]
     eqs_c = [to_dc(e) for e in equations]
     ringed_c = [(to_c(h), h) for h in ringed]
-    radius = _window(rays_c + [c for c, _ in ringed_c])
+    radius = window_radius(rays_c + [c for c, _ in ringed_c])
     panel = Panel(title, subtitle)
     plane = Plane(radius)
     panel.body += _axes(plane)
@@ -507,7 +499,7 @@ def cone_panels(name: str, o: dict, basis=None) -> list[Panel]:
     if n == 2 and basis:
         return _overlattice_panels(name, o, basis)
     if n == 2:
-        radius = o.get("lattice_window") or _window(o["rays"] + o.get("hilbert_basis", []) + o["facets"])
+        radius = o.get("lattice_window") or window_radius(o["rays"] + o.get("hilbert_basis", []) + o["facets"])
         p1 = _cone_panel_2d(f"cone {name} in {lattice}", "σ, its lattice points and Hilbert basis (ringed)",
                             radius, o["rays"], o["lineality"], o["facets"], o["linear_equations"],
                             o.get("lattice_points", []), o.get("hilbert_basis", []))
@@ -579,7 +571,7 @@ def fan_panels(name: str, o: dict, standard: bool = True) -> list[Panel]:
         sub = "not a fan: the listed cones overlap or are not cones of a fan"
     labels = [f"{i + 1}" for i in range(len(rays))]
     if n == 2:
-        radius = _window(rays)
+        radius = window_radius(rays)
         panel = Panel(title, sub)
         plane = Plane(radius)
         panel.body += _axes(plane)
@@ -624,7 +616,7 @@ def morphism_panels(name: str, o: dict, objects: dict) -> list[Panel]:
     gens = [image(v) for v in src["rays"]]
     gens += [image(l) for l in src["lineality"]] + [tuple(-x for x in image(l)) for l in src["lineality"]]
     gens = [g for g in gens if any(g)]
-    radius = _window(tgt["rays"] + [list(g) for g in gens])
+    radius = window_radius(tgt["rays"] + [list(g) for g in gens])
     panel = Panel(f"morphism {name}: {o['map']}({o['source']}) in {o['target']}",
                   f"shaded: {o['target']}; darker: the image of {o['source']}")
     plane = Plane(radius)

@@ -17,6 +17,7 @@ from .engine import NotAvailable, NotPointed
 from .properties import group_string
 from .engine import guard as _guard
 from .imports import Imported
+from .pictures import window_radius
 from .forms import fan_problem_message, fmt_vec, jnum, jvec  # noqa: F401 (jnum, jvec: also used by the renderers' callers)
 
 
@@ -311,11 +312,7 @@ def window_facts(value: V.ConeValue, facts: dict) -> dict:
     vecs = list(facts.get("rays", [])) + list(facts.get("hilbert_basis", []))
     var = facts.get("variety") or {}
     vecs += list(var.get("generators", [])) + list(facts.get("facets", []))
-    size = 0
-    for v in vecs:
-        for c in v:
-            size = max(size, abs(Fraction(c)))
-    radius = max(WINDOW_MIN, min(WINDOW_MAX, int(size) + (0 if Fraction(size).denominator == 1 else 1)))
+    radius = window_radius(vecs, WINDOW_MIN, WINDOW_MAX)
     from ..geometry import cone as gcone
     return {"lattice_window": radius,
             "lattice_points": _window_points(value.space, value.cone, radius),

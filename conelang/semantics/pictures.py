@@ -44,6 +44,20 @@ def _dot(u, v):
     return sum(a * b for a, b in zip(u, v))
 
 
+def window_radius(vectors, lo: int = 3, hi: int = 8) -> int:
+    """The half-width R of the square window ``[-R, R]^2`` of a plane picture: just large
+    enough for the vectors (the largest coordinate, rounded up), between ``lo`` and ``hi``.
+
+    >>> window_radius([(1, 0), ("7/2", -1)]), window_radius([(1, 0)]), window_radius([(40, 1)])
+    (4, 3, 8)
+    """
+    size = 0
+    for v in vectors:
+        for c in v:
+            size = max(size, abs(Fraction(c)))
+    return max(lo, min(hi, int(size) + (Fraction(size).denominator != 1)))
+
+
 def section_functional(rays, facets):
     """The plane ``<w, x> = level`` of the picture of a pointed 3-dimensional cone: when one
     functional takes the same value on every ray generator (a Q-Gorenstein cone), ``w`` is
