@@ -1,4 +1,4 @@
-"""The computed facts of each object, as plain JSON-ready data (the ``objects`` of LANGUAGE.md).
+"""The computed facts of each object, as plain JSON-ready data (the ``objects`` of docs/language.md).
 
 Every renderer (text, Markdown, LaTeX, JSON, hover) formats these dictionaries, so a fact
 is computed in one place.  Vectors are in user coordinates: lists of ints, or of strings
