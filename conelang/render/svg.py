@@ -40,7 +40,8 @@ from math import sqrt
 from xml.sax.saxutils import escape
 
 from ..semantics.forms import fmt_number, fmt_vec
-from ..semantics.pictures import plane_cone_normals, positive_functional, section_functional, window_radius
+from ..semantics.pictures import (inverse2, lattice_points_in, mat_vec, plane_cone_normals, positive_functional,
+                                  section_functional, support_points, window_radius)
 
 PANEL = 300          # drawing area of a panel (square), in SVG units
 TITLE = 34           # room for the title above a panel
@@ -410,29 +411,6 @@ def _wrap(text: str, width: int) -> list[str]:
 # objects
 
 
-def _mat_vec(v, rows):
-    """v · rows (v a row vector)."""
-    return tuple(sum(_q(a) * _q(r[j]) for a, r in zip(v, rows)) for j in range(len(rows[0])))
-
-
-def _inverse2(B):
-    (a, b), (c, d) = [_qv(r) for r in B]
-    det = a * d - b * c
-    return ((d / det, -b / det), (-c / det, a / det))
-
-
-def _lattice_points_in(radius: int, normals, equations, basis) -> list[tuple[tuple, tuple]]:
-    """(lattice coordinates, user coordinates) of the points of Z^2 in ``[-radius, radius]^2``
-    with ``<n, x> >= 0`` and ``<e, x> = 0`` (normals in dual lattice coordinates)."""
-    out = []
-    for a in range(-radius, radius + 1):
-        for b in range(-radius, radius + 1):
-            x = (a, b)
-            if all(_dot(u, x) >= 0 for u in normals) and all(_dot(e, x) == 0 for e in equations):
-                out.append((x, _mat_vec(x, basis)))
-    return out
-
-
 def _marks(plane: Plane, pairs, cls: str, r: float) -> list[str]:
     """Circles at lattice coordinates, labelled (``data-point``) with user coordinates."""
     out = []
@@ -448,9 +426,9 @@ def _overlattice_panel(title, subtitle, rays, lineality, normals, equations, bas
     """A plane cone of an overlattice drawn in the lattice's own coordinates (its basis
     ``basis`` in user coordinates): its points are the integer grid; the marks keep their user
     coordinates in ``data-point`` and the ray labels are written in user coordinates."""
-    inv = _inverse2(basis)
-    to_c = lambda v: _mat_vec(v, inv)                      # noqa: E731  user -> coordinates
-    to_dc = lambda u: _mat_vec(u, list(zip(*basis)))       # noqa: E731  dual user -> dual coords
+    inv = inverse2(basis)
+    to_c = lambda v: mat_vec(v, inv)                      # noqa: E731  user -> coordinates
+    to_dc = lambda u: mat_vec(u, list(zip(*basis)))       # noqa: E731  dual user -> dual coords
     rays_c = [to_c(r) for r in rays]
     lin_c = [to_c(l) for l in lineality]
     normals_c = [to_dc(u) for u in normals]
@@ -470,14 +448,14 @@ def _overlattice_panel(title, subtitle, rays, lineality, normals, equations, bas
     panel.body += _rays(plane, edges, edge_labels, placer)
     if lin_c:
         panel.body += _marks(plane, list(zip(rays_c, rays)), "ray-generator", 3.5)
-    panel.body += _marks(plane, _lattice_points_in(int(radius), normals_c, eqs_c, basis), "lattice-point", 2.5)
+    panel.body += _marks(plane, lattice_points_in(int(radius), normals_c, eqs_c, basis), "lattice-point", 2.5)
     panel.body += _marks(plane, ringed_c, "hilbert-basis", 5.5)
     return panel
 
 
 def _overlattice_panels(name: str, o: dict, basis) -> list[Panel]:
     var = o.get("variety") or {}
-    dual_basis_vectors = [tuple(r) for r in _inverse2(basis)]            # columns: the dual basis
+    dual_basis_vectors = [tuple(r) for r in inverse2(basis)]            # columns: the dual basis
     dual_basis = [tuple(dual_basis_vectors[j][i] for j in range(2)) for i in range(2)]
     lin = o["lineality"]
     p1 = _overlattice_panel(f"cone {name} in {o['lattice']}",
@@ -530,33 +508,6 @@ def cone_panels(name: str, o: dict, basis=None) -> list[Panel]:
     return []
 
 
-def _support_points(rays, cones, radius: int) -> list[tuple[int, int]]:
-    """The points of Z^2 in ``[-radius, radius]^2`` that lie in some cone of a plane fan
-    (cones as 0-based ray indices; exact, by the signs of determinants).
-
-    >>> len(_support_points([(1, 0), (0, 1)], [[0, 1]], 1)), _support_points([(1, 1)], [[0]], 1)
-    (4, [(0, 0), (1, 1)])
-    """
-    def det(a, b):
-        return a[0] * b[1] - a[1] * b[0]
-
-    gens = [[_qv(rays[i]) for i in c] for c in cones]
-    normals = [plane_cone_normals(g) if len(g) >= 2 else None for g in gens]
-    out = []
-    for x in range(-radius, radius + 1):
-        for y in range(-radius, radius + 1):
-            p = (x, y)
-            for g, nm in zip(gens, normals):
-                if len(g) == 1:
-                    hit = det(g[0], p) == 0 and _dot(g[0], p) >= 0
-                else:
-                    hit = nm is not None and all(_dot(n, p) >= 0 for n in nm)
-                if hit or p == (0, 0):
-                    out.append(p)
-                    break
-    return out
-
-
 def fan_panels(name: str, o: dict, standard: bool = True) -> list[Panel]:
     rays = o["rays"]
     if not rays:
@@ -583,7 +534,7 @@ def fan_panels(name: str, o: dict, standard: bool = True) -> list[Panel]:
                     if len(poly) >= 3:
                         panel.body.append(_polygon(plane, poly, "region", FILLS[k % len(FILLS)]))
         if standard:
-            panel.body += _points(plane, _support_points(rays, cones, int(radius)), "lattice-point", 2)
+            panel.body += _points(plane, support_points(rays, cones, int(radius)), "lattice-point", 2)
         panel.body += _rays(plane, rays, [f"{i + 1}: {_vec_text(r)}" for i, r in enumerate(rays)])
         for i, r in enumerate(rays):
             if max(abs(Fraction(c)) for c in r) <= radius:

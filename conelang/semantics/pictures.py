@@ -117,3 +117,57 @@ def positive_functional(rays):
     if all(_dot(w, [Fraction(x) for x in r]) > 0 for r in rays):
         return w
     return None
+
+
+def _rationals(v) -> tuple[Fraction, ...]:
+    return tuple(Fraction(x) for x in v)
+
+
+def mat_vec(v, rows):
+    """v · rows (v a row vector)."""
+    return tuple(sum(Fraction(a) * Fraction(r[j]) for a, r in zip(v, rows)) for j in range(len(rows[0])))
+
+
+def inverse2(B):
+    (a, b), (c, d) = [_rationals(r) for r in B]
+    det = a * d - b * c
+    return ((d / det, -b / det), (-c / det, a / det))
+
+
+def lattice_points_in(radius: int, normals, equations, basis) -> list[tuple[tuple, tuple]]:
+    """(lattice coordinates, user coordinates) of the points of Z^2 in ``[-radius, radius]^2``
+    with ``<n, x> >= 0`` and ``<e, x> = 0`` (normals in dual lattice coordinates)."""
+    out = []
+    for a in range(-radius, radius + 1):
+        for b in range(-radius, radius + 1):
+            x = (a, b)
+            if all(_dot(u, x) >= 0 for u in normals) and all(_dot(e, x) == 0 for e in equations):
+                out.append((x, mat_vec(x, basis)))
+    return out
+
+
+def support_points(rays, cones, radius: int) -> list[tuple[int, int]]:
+    """The points of Z^2 in ``[-radius, radius]^2`` that lie in some cone of a plane fan
+    (cones as 0-based ray indices; exact, by the signs of determinants).
+
+    >>> len(support_points([(1, 0), (0, 1)], [[0, 1]], 1)), support_points([(1, 1)], [[0]], 1)
+    (4, [(0, 0), (1, 1)])
+    """
+    def det(a, b):
+        return a[0] * b[1] - a[1] * b[0]
+
+    gens = [[_rationals(rays[i]) for i in c] for c in cones]
+    normals = [plane_cone_normals(g) if len(g) >= 2 else None for g in gens]
+    out = []
+    for x in range(-radius, radius + 1):
+        for y in range(-radius, radius + 1):
+            p = (x, y)
+            for g, nm in zip(gens, normals):
+                if len(g) == 1:
+                    hit = det(g[0], p) == 0 and _dot(g[0], p) >= 0
+                else:
+                    hit = nm is not None and all(_dot(n, p) >= 0 for n in nm)
+                if hit or p == (0, 0):
+                    out.append(p)
+                    break
+    return out
