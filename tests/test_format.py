@@ -336,3 +336,15 @@ def test_cli_format_check_and_write(tmp_path):
     assert r.returncode == 1 and "syntax errors" in r.stderr
     assert broken.read_text() == "cone c in N { rays (1,0\n"
     assert _cli("format", str(tmp_path / "missing.cone")).returncode == 2
+
+
+def test_use_statements_are_laid_out_and_keep_their_meaning():
+    text = ('use   "shared/lattices.cone"(N,a2   as wedge ,)  # the shared file\n'
+            'use "other.cone"\n\ncone c in N { rays (1,0) }\n')
+    out = format_text(text)
+    assert out == ('use "shared/lattices.cone" (N, a2 as wedge)  # the shared file\n'
+                   'use "other.cone"\n\ncone c in N { rays (1, 0) }\n')
+    assert format_text(out) == out
+    before, after = parse(text).statements[0], parse(out).statements[0]
+    assert (before.path, [(i.name.text, i.alias and i.alias.text) for i in before.items]) == \
+        (after.path, [(i.name.text, i.alias and i.alias.text) for i in after.items])
