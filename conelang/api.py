@@ -342,17 +342,32 @@ def _document(text: str, uri: str, label: str, budget: Any, files: bool = False,
     return Document(host.document(uri, label=label), text, uri)
 
 
-def loads(text: str, name: str = "<string>", *, budget: int | None = DEFAULT_BUDGET) -> Document:
+def loads(text: str, name: str = "<string>", *, budget: int | None = DEFAULT_BUDGET,
+          folder: str | os.PathLike | None = None, allow_outside_root: bool = False) -> Document:
     """Analyse ``.cone`` source text.  ``name`` is the document's ``file``; ``budget`` the
     work budget of each heavy computation (None: no limit), as ``conelang show --budget``.
-    The text is not a file, so a ``use`` statement in it cannot be resolved (it is an error
-    diagnostic); :func:`load` a file for that."""
+    Without ``folder`` the text is not a file, so a ``use`` statement in it cannot be resolved
+    (it is an error diagnostic); with ``folder``, ``use`` paths are relative to that folder, as
+    if the text were a file there (inside its project root unless ``allow_outside_root``).
+
+    >>> import tempfile, pathlib
+    >>> d = pathlib.Path(tempfile.mkdtemp()); _ = (d / "conelang.toml").write_text("")
+    >>> _ = (d / "shared.cone").write_text("lattice N = Z^2\\n")
+    >>> loads('use "shared.cone"\\ncone c in N { rays (1,0) (1,2) }', folder=d)["c"].dim
+    2
+    """
     if not isinstance(text, str):
         raise ConelangError(f"loads() takes the text of a .cone file as a str, not {type(text).__name__}"
                             + (" (decode the bytes first, or use load(path))" if isinstance(text, bytes) else ""))
     if not isinstance(name, str):
         raise ConelangError(f"the name of a document is a str, not {type(name).__name__}")
-    return _document(text, name, name, budget)
+    if folder is None:
+        return _document(text, name, name, budget)
+    if not isinstance(folder, (str, os.PathLike)) or not Path(folder).is_dir():
+        raise ConelangError(f"folder= must be an existing folder, not {folder!r}")
+    stem = name if _NAME.fullmatch(name or "") else "string"
+    uri = (Path(folder).resolve() / f"{stem}.cone").as_uri()
+    return _document(text, uri, name, budget, files=True, allow_outside_root=bool(allow_outside_root))
 
 
 def load(path: str | os.PathLike, *, budget: int | None = DEFAULT_BUDGET,

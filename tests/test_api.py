@@ -440,3 +440,15 @@ def test_the_python_examples_of_the_docs_hold(doc_file, monkeypatch):
             assert eval(code, env) == want, (doc_file, line)
             checked += 1
     assert checked >= 2, doc_file
+
+
+def test_loads_with_a_folder_resolves_use_statements(tmp_path):
+    # the A_2 singularity 1/3(1,2) has class group Z/3 (Fulton §3.4, from memory)
+    (tmp_path / "conelang.toml").write_text("")
+    (tmp_path / "shared.cone").write_text("lattice N = Z^2\ncone a2 in N { rays (0,1) (3,-2) }\n")
+    doc = conelang.loads('use "shared.cone" (N, a2)\nexpect a2 class_group = "Z/3"\n'
+                         'cone c in N { rays (1,0) (0,1) }\n', folder=tmp_path)
+    assert doc.diagnostics == [] and doc.names == ["c"]
+    assert [d.code for d in conelang.loads('use "shared.cone"\n').diagnostics] == ["import-not-found"]
+    with pytest.raises(conelang.ConelangError):
+        conelang.loads("lattice N = Z^2\n", folder=tmp_path / "missing")
