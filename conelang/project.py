@@ -24,6 +24,7 @@ True
 from __future__ import annotations
 
 import os
+import stat
 from urllib.parse import unquote, urlparse
 from urllib.request import pathname2url
 
@@ -162,8 +163,28 @@ class FileLoader:
         path = uri_to_path(uri)
         if path is None:
             raise FileNotFoundError(uri)
-        with open(path, encoding="utf-8") as f:
-            return f.read()
+        # non-blocking: opening a pipe for reading must not wait for a writer
+        fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+        with open(fd, "rb") as f:
+            info = os.fstat(f.fileno())
+            if stat.S_ISDIR(info.st_mode):
+                raise IsADirectoryError(path)
+            if not stat.S_ISREG(info.st_mode):       # a device or a pipe could be endless
+                raise NotAFile(path)
+            if info.st_size > MAX_BYTES:
+                raise FileTooLarge(path)
+            return f.read(MAX_BYTES + 1).decode("utf-8")
+
+
+MAX_BYTES = 16 * 2 ** 20        # a .cone file that another file uses is at most 16 MiB
+
+
+class NotAFile(OSError):
+    """A path that names a device, a pipe or a socket, not a file."""
+
+
+class FileTooLarge(OSError):
+    """A file larger than :data:`MAX_BYTES`."""
 
 
 def read_failure(path: str, exc: BaseException) -> ImportFailure:
@@ -174,6 +195,10 @@ def read_failure(path: str, exc: BaseException) -> ImportFailure:
         why = "there is no such file"
     elif isinstance(exc, IsADirectoryError):
         why = "it is a folder"
+    elif isinstance(exc, NotAFile):
+        why = "it is not a regular file (a device, pipe or socket)"
+    elif isinstance(exc, FileTooLarge):
+        why = f"it is larger than {MAX_BYTES // 2 ** 20} MiB"
     else:
         why = getattr(exc, "strerror", None) or type(exc).__name__
     return ImportFailure("import-not-found", f"cannot read \"{path}\": {why}")

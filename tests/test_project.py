@@ -285,3 +285,18 @@ def test_the_example_project_checks_and_its_numbers_are_the_known_ones(capsys):
     t = str(example / "tables" / "threefolds.cone")
     assert host.analysis(t).kind_of("k7") == "cone"
     assert [d.code for d in host.diagnostics(t)] == []
+
+
+def test_devices_pipes_and_huge_files_are_refused_without_reading_them(tmp_path, monkeypatch):
+    import os
+
+    from conelang import project as loader_module
+    root = project(tmp_path, {"t.cone": 'use "/dev/zero"\nuse "fifo.cone"\nuse "big.cone"\n'})
+    os.mkfifo(root / "fifo.cone")                  # reading it would block forever
+    (root / "big.cone").write_text("lattice N = Z^1\n" * 10)
+    monkeypatch.setattr(loader_module, "MAX_BYTES", 100)
+    got = diagnostics(root / "t.cone", loader=FileLoader(allow_outside_root=True))
+    assert [(c, line) for c, line, _ in got] == [("import-not-found", 1), ("import-not-found", 2),
+                                                 ("import-not-found", 3)]
+    assert "not a regular file" in got[0][2] and "not a regular file" in got[1][2]
+    assert "larger than" in got[2][2]
