@@ -166,3 +166,27 @@ def test_crepant_refinements():
                         "fan Ra = resolve a3\nfan Rt = resolve t\n"
                         "expect B crepant\nexpect O not crepant\nexpect Ra crepant\nexpect Rt not crepant\n")
     assert errors(text) == []
+
+
+def test_ages_and_discrepancies_as_expectations():
+    # Reid, Young person's guide (from memory): the age of g = (a_1/r, …, a_n/r) is Σ a_i / r;
+    # 1/7(1,2,4) has the three junior elements g, g^2, g^4 and g^3, g^5, g^6 of age 2.  Brute
+    # force for 1/5(1,2): the ages of k·(1,2)/5 mod 1, k = 1..4, are 3/5, 6/5, 4/5, 7/5.
+    from fractions import Fraction
+    brute = sorted(Fraction(k % 5, 5) + Fraction(2 * k % 5, 5) for k in range(1, 5))
+    text = ("lattice N5 = Z^2 + 1/5 (1, 2)\ncone q in N5 { rays (1,0) (0,1) }\n"
+            f"expect q ages = ({', '.join(str(a) for a in brute)})\n"
+            "lattice L = Z^3 + 1/7 (1, 2, 4)\ncone klein in L { rays (1,0,0) (0,1,0) (0,0,1) }\n"
+            "expect klein ages = (1, 1, 1, 2, 2, 2)\n"
+            # the minimal resolution of 1/5(1,2): rays (0,1) (1,0) (3,-1) (5,-2); with
+            # m_K = (1, 2) (value 1 on both rays) the discrepancies are <m_K, v> - 1
+            # (Fulton §3.4 for the resolution, from memory)
+            "lattice N = Z^2\ncone e52 in N { rays (0,1) (5,-2) }\nfan r = resolve e52\n"
+            "expect r discrepancies = (0, -2/5, -1/5, 0)\nexpect r not crepant\n"
+            "cone a2 in N { rays (0,1) (3,-2) }\nfan ra2 = resolve a2\n"
+            "expect ra2 discrepancies = (0, 0, 0, 0)\nexpect ra2 crepant\n")
+    assert errors(text) == []
+    wrong = errors(text.replace("expect klein ages = (1, 1, 1, 2, 2, 2)", "expect klein ages = (1, 2)"))
+    assert [c for c, _ in wrong] == ["expect-failed"]
+    assert [c for c, _ in errors("lattice N = Z^2\nfan f in N { rays (1,0) cones [1] }\n"
+                                 "expect f discrepancies = (0)\n")] == ["not-a-refinement"]

@@ -480,4 +480,4 @@ def _difference(analysis, left, right) -> str:
 # ---- quotient singularities, discrepancies, intersection theory (semantics/singularities.py) ---
 from . import singularities as _singularities  # noqa: E402
 
-_singularities.register(prop, BOOL, INT, GROUP, QUOTIENT)
+_singularities.register(prop, BOOL, INT, GROUP, QUOTIENT, NUMS)

@@ -191,13 +191,7 @@ class NotARefinement(NotAvailable):
 
 
 def _crepant(analysis, value: V.FanValue) -> bool:
-    disc = ray_discrepancies(analysis, value)
-    if not disc:
-        raise NotARefinement("it refines nothing: discrepancies are defined for fans made by "
-                             "'resolve', 'star' or 'refine'")
-    if any(a is None for a in disc):
-        raise NotQGorenstein("the refined cone or fan is not Q-Gorenstein, so discrepancies are not defined")
-    return all(a == 0 for a in disc)
+    return all(a == 0 for a in _discrepancies(analysis, value))
 
 
 def intersection_ring(analysis, value: V.FanValue):
@@ -291,7 +285,17 @@ def map_extra_facts(value: V.MapValue) -> dict:
 
 
 # ---- properties -------------------------------------------------------------------------------
-def register(prop, BOOL, INT, GROUP, QUOTIENT) -> None:
+def _discrepancies(analysis, value: V.FanValue) -> tuple:
+    disc = ray_discrepancies(analysis, value)
+    if not disc:
+        raise NotARefinement("it refines nothing: discrepancies are defined for fans made by "
+                             "'resolve', 'star' or 'refine'")
+    if any(a is None for a in disc):
+        raise NotQGorenstein("the refined cone or fan is not Q-Gorenstein, so discrepancies are not defined")
+    return disc
+
+
+def register(prop, BOOL, INT, GROUP, QUOTIENT, NUMS=None) -> None:
     """Register this layer's ``expect`` properties (called by ``properties.py``)."""
 
     prop("cone", "quotient", QUOTIENT,
@@ -301,6 +305,13 @@ def register(prop, BOOL, INT, GROUP, QUOTIENT) -> None:
         lambda a, v: (0, quotient_of(a, v.cone).invariants))
     prop("cone", "junior", INT, "number of junior elements (age 1) of N/N' (simplicial cones)")(
         lambda a, v: len(quotient_of(a, v.cone).junior))
+    if NUMS is not None:
+        prop("cone", "ages", NUMS, "the ages of the nonzero elements of N/N', smallest first, "
+             "written (3/5, 4/5, 6/5, 7/5) (simplicial cones)")(
+            lambda a, v: tuple(sorted(e.age for e in quotient_of(a, v.cone).elements)))
+        prop("fan", "discrepancies", NUMS, "the discrepancy a(D) = <m_K, v> - 1 of each ray of a refinement "
+             "(resolve, star, refine), in the order of its rays")(
+            lambda a, v: _discrepancies(a, v))
     prop("cone", "terminal", BOOL, "U_σ is terminal: the only lattice points of height ≤ 1 are 0 and the rays")(
         lambda a, v: classes_of(a, v.cone).terminal)
     prop("cone", "canonical", BOOL, "U_σ is canonical: no nonzero lattice point of σ has height < 1")(
