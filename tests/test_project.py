@@ -300,3 +300,14 @@ def test_devices_pipes_and_huge_files_are_refused_without_reading_them(tmp_path,
                                                  ("import-not-found", 3)]
     assert "not a regular file" in got[0][2] and "not a regular file" in got[1][2]
     assert "larger than" in got[2][2]
+
+
+def test_hover_on_a_use_path_lists_what_it_brings(tmp_path):
+    root = project(tmp_path, {"shared.cone": SHARED, "t.cone": 'use "shared.cone" (N, a2 as wedge)\nuse "nope.cone"\n'})
+    host = AnalysisHost(loader=FileLoader())
+    uri = str(root / "t.cone")
+    text = (root / "t.cone").read_text()
+    md, span = host.hover(uri, text.index("shared"))
+    assert md == "`shared.cone` brings 2 names: `N` (lattice), `wedge` (cone, `a2` there)"
+    assert text[span[0]:span[1]] == '"shared.cone"'
+    assert host.hover(uri, text.index("nope")) is None          # the diagnostic says what is wrong

@@ -167,13 +167,34 @@ def object_markdown(a, name: str, heavy: bool = True, equations: bool = True) ->
 
 def hover(a, offset: int, heavy: bool = True):
     """(markdown, span) for the name, vector or property under ``offset``; None elsewhere."""
-    found = _vector_hover(a, offset) or _property_hover(a, offset)
+    found = _vector_hover(a, offset) or _property_hover(a, offset) or _use_hover(a, offset)
     if found is not None:
         return found
     hit = a.node_at(offset)
     if hit is None or hit[1] is None:
         return None
     return (object_markdown(a, hit[1], heavy), hit[2])
+
+
+def _use_hover(a, offset: int):
+    """On the path of a ``use`` statement: the file and the names it brings, with their kinds.
+
+    >>> from conelang.semantics.analysis import Analysis
+    >>> from conelang.semantics.imports import Resolved
+    >>> shared = Analysis("lattice N = Z^2\\ncone wedge in N { rays (1,0) (1,2) }")
+    >>> a = Analysis('use "shared.cone"', resolver=lambda p: Resolved("mem://s", p, shared))
+    >>> print(_use_hover(a, 6)[0])
+    `shared.cone` brings 2 names: `N` (lattice), `wedge` (cone)
+    """
+    for st in a.uses:
+        lo, hi = st.path_span
+        if lo <= offset <= hi and st in a.used_files:
+            names = [(n, e.kind) for n, e in a.defs.items() if isinstance(e, Imported) and e.use is st]
+            listed = ", ".join(f"`{n}` ({kind})" if n == e_src else f"`{n}` ({kind}, `{e_src}` there)"
+                               for (n, kind), e_src in zip(names, (a.defs[n].source_name for n, _ in names)))
+            count = f"{len(names)} name{'s' * (len(names) != 1)}"
+            return (f"`{st.path}` brings {count}" + (f": {listed}" if names else ""), st.path_span)
+    return None
 
 
 def hover_pending(a, offset: int) -> str | None:
