@@ -188,6 +188,10 @@ def cmd_show(args) -> int:
     else:
         from .render import text as r
     if fmt in ("text", "markdown"):
+        sources = sorted({src for src in names.values() if src is not None})
+        if not doc["objects"] and sources:
+            print(f"conelang: {path} defines nothing of its own; its names come from "
+                  f"{', '.join(sources)} (show that file for their facts)", file=sys.stderr)
         for d in doc["diagnostics"]:
             print(diagnostic_line(str(path), d), file=sys.stderr)
     out = (r.render(doc, whole_document=True) if fmt == "latex" and args.whole_document
