@@ -179,3 +179,27 @@ def test_doctests():
     from conelang.semantics import singularities as sem
     for mod in (S, intersection, subdivision, layer, sem):
         assert doctest.testmod(mod).failed == 0, mod.__name__
+
+
+def test_the_type_is_the_same_whatever_the_order_of_the_rays():
+    # 1/n(1,q) is cone(e2, n e1 - q e2) (Fulton, Introduction to Toric Varieties §2.2, from
+    # memory) and 1/n(1,q) = 1/n(1,q') when q q' = 1 mod n; the written type is the sorted
+    # least form, so it is 1/n(1, min(q, q')) in every order of the rays
+    from itertools import permutations
+    for n in range(2, 12):
+        for q in range(1, n):
+            if gcd(n, q) != 1:
+                continue
+            qq = next(x for x in range(1, n) if q * x % n == 1)
+            for rays in permutations([(0, 1), (n, -q)]):
+                g = S.quotient_group(cone_from_rays(list(rays), 2))
+                assert S.type_string(g) == f"1/{n}(1,{min(q, qq)})", (n, q, rays)
+    # three dimensions: Z^3 + 1/7 (1,2,4) over the orthant, rays in any order (Reid, from memory)
+    for rays in permutations([(1, 0, 0), (0, 1, 0), (0, 0, 1)]):
+        L = glat.overlattice(3, [(Fraction(1, 7), Fraction(2, 7), Fraction(4, 7))])
+        gens = [glat.to_coords(L, r) for r in rays]
+        g = S.quotient_group(cone_from_rays(gens, 3))
+        assert S.type_string(g) == "1/7(1,2,4)"
+        # the weights are written in the order of q.rays: Σ w_i v_i is the group element's point
+        for e in g.elements:
+            assert tuple(sum(w * v[j] for w, v in zip(e.weights, g.rays)) for j in range(3)) == e.point
