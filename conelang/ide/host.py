@@ -13,7 +13,10 @@ text and an offset, in :mod:`conelang.ide.editor`; the language server only conv
 """
 from __future__ import annotations
 
+import os
+
 from ..geometry import budget as gbudget
+from ..project import uri_to_path
 from ..semantics.analysis import Analysis
 from ..semantics.diagnostics import Diagnostic, sort_key
 from ..semantics.engine import Engine
@@ -233,10 +236,8 @@ class AnalysisHost:
         return resolve
 
     def _label(self, uri: str) -> str:
-        import os
-        from urllib.parse import unquote, urlparse
-        p = unquote(urlparse(uri).path) if uri.startswith("file:") else uri
-        return os.path.basename(p) or uri
+        """The file name of ``uri`` for messages (the uri itself when it names no file)."""
+        return os.path.basename(uri_to_path(uri) or "") or uri
 
     def forget_analysis(self, uri: str) -> None:
         """Drop the cached analysis of ``uri`` (e.g. after a cancelled computation)."""

@@ -114,20 +114,11 @@ def clash_message(name: str, first, second) -> str:
     """A name defined twice where at least one of the two comes from a ``use`` statement."""
     def where(e):
         return f"from {e.source_label}" if isinstance(e, Imported) else "in this file"
-    return (f"'{name}' is both {_what(first)} {where(first)} and {_what(second)} {where(second)}; "
-            f"rename one, e.g. use \"{_label_of(first, second)}\" ({_src(first, second)} as "
-            f"{name}_2)")
+    used = second if isinstance(second, Imported) else first       # the one to rename
+    return (f"'{name}' is both {verb(first)} {where(first)} and {verb(second)} {where(second)}; "
+            f"rename one, e.g. use \"{used.use.path}\" ({used.source_name} as {name}_2)")
 
 
-def _what(e) -> str:
+def verb(e) -> str:
+    """How a name came to be: "used" (from another file) or "defined" (here)."""
     return "used" if isinstance(e, Imported) else "defined"
-
-
-def _label_of(first, second) -> str:
-    e = second if isinstance(second, Imported) else first
-    return e.use.path
-
-
-def _src(first, second) -> str:
-    e = second if isinstance(second, Imported) else first
-    return e.source_name

@@ -82,7 +82,7 @@ class Names:
                     and (first.source_uri, first.source_name) == (st.source_uri, st.source_name)):
                 return                   # the same definition brought in twice
             self.sink.error(st.name.span, "import-clash", I.clash_message(name, first, st),
-                            related=(Related(first.name.span, f"'{name}' is first {I._what(first)} here"),))
+                            related=(Related(first.name.span, f"'{name}' is first {I.verb(first)} here"),))
             return
         line = self.index.position(first.name.span[0])[0] + 1
         self.sink.error(st.name.span, "duplicate-name",
